@@ -1,0 +1,177 @@
+package fem
+
+import (
+	"fmt"
+	"math"
+
+	"flangeseg/material"
+)
+
+// scratch is per-goroutine working memory for element routines, so that
+// assembly does not allocate per element.
+type scratch struct {
+	n, dxi, deta, dndx, dndz [8]float64
+	ue, fe                   [maxElementDofs]float64
+	ke                       [maxElementDofs * maxElementDofs]float64
+	geo                      PointGeometry
+	jac                      [4]float64 // J11, J12, J21, J22 of the last point
+}
+
+func newScratch() *scratch { return &scratch{} }
+
+// pointGeometry evaluates the element's geometry at a natural point.
+func (m *Model) pointGeometry(e int, p naturalPoint, s *scratch) (*PointGeometry, error) {
+	el := &m.mesh.Elements[e]
+	nen := len(el.Nodes)
+	shapeFunctions(m.mesh.Kind)(p.xi, p.eta, s.n[:nen], s.dxi[:nen], s.deta[:nen])
+	var j11, j12, j21, j22, x, z float64 // J = ∂(x,z)/∂(ξ,η)
+	for a, node := range el.Nodes {
+		q := m.mesh.Nodes[node]
+		j11 += s.dxi[a] * q.X
+		j12 += s.dxi[a] * q.Z
+		j21 += s.deta[a] * q.X
+		j22 += s.deta[a] * q.Z
+		x += s.n[a] * q.X
+		z += s.n[a] * q.Z
+	}
+	det := j11*j22 - j12*j21
+	if !(det > 0) {
+		return nil, fmt.Errorf("fem: element %d (region %q): Jacobian determinant %.3g at ξ = %.3f, η = %.3f: element inverted or degenerate",
+			e, m.mesh.Regions[el.Region].Name, det, p.xi, p.eta)
+	}
+	s.jac = [4]float64{j11, j12, j21, j22}
+	for a := 0; a < nen; a++ {
+		s.dndx[a] = (j22*s.dxi[a] - j12*s.deta[a]) / det
+		s.dndz[a] = (-j21*s.dxi[a] + j11*s.deta[a]) / det
+	}
+	w := p.w * det
+	if m.opt.Condition == material.Axisymmetric {
+		w *= 2 * math.Pi * x
+	} else {
+		w *= m.mesh.Regions[el.Region].Thickness
+	}
+	g := &s.geo
+	g.N, g.DNdx, g.DNdz = s.n[:nen], s.dndx[:nen], s.dndz[:nen]
+	g.X, g.Z, g.Weight = x, z, w
+	return g, nil
+}
+
+// PointResult is the state of one integration point after a solve.
+type PointResult struct {
+	X, Z   float64
+	Strain material.Vec4
+	Stress material.Vec4
+}
+
+// elementResponse computes the internal force fe and, if ke != nil, the
+// tangent of element e at element displacements ue. If pts is not nil it
+// receives one PointResult per integration point.
+func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, s *scratch) error {
+	for i := range fe {
+		fe[i] = 0
+	}
+	for i := range ke {
+		ke[i] = 0
+	}
+	if m.opt.Formulation == IncompatibleModes {
+		return m.incompatibleResponse(e, ue, fe, ke, pts, s)
+	}
+	law := m.laws[m.mesh.Elements[e].Region]
+	for ip, p := range m.rule {
+		g, err := m.pointGeometry(e, p, s)
+		if err != nil {
+			return err
+		}
+		strain := m.kin.Strain(m.opt.Condition, g, ue)
+		stress, d, err := law.Respond(m.opt.Condition, strain, nil, nil)
+		if err != nil {
+			return fmt.Errorf("fem: element %d, point %d: %w", e, ip, err)
+		}
+		m.kin.Accumulate(m.opt.Condition, g, ue, stress, &d, fe, ke)
+		if pts != nil {
+			pts[ip] = PointResult{X: g.X, Z: g.Z, Strain: strain, Stress: stress}
+		}
+	}
+	return nil
+}
+
+// edgeLoad is a distributed load on an edge set: a pressure normal to the
+// edge (positive pressing into the body) plus a traction in x and z, both
+// per unit area (MPa).
+type edgeLoad struct {
+	set      string
+	pressure float64
+	tx, tz   float64
+}
+
+// AddPressure puts a uniform pressure p (MPa, positive pressing on the
+// body) on an edge set.
+func (m *Model) AddPressure(set string, p float64) error {
+	if _, ok := m.mesh.EdgeSets[set]; !ok {
+		return fmt.Errorf("fem: edge set %q does not exist", set)
+	}
+	m.edges = append(m.edges, edgeLoad{set: set, pressure: p})
+	return nil
+}
+
+// AddTraction puts a uniform traction (tx, tz) in MPa on an edge set.
+func (m *Model) AddTraction(set string, tx, tz float64) error {
+	if _, ok := m.mesh.EdgeSets[set]; !ok {
+		return fmt.Errorf("fem: edge set %q does not exist", set)
+	}
+	m.edges = append(m.edges, edgeLoad{set: set, tx: tx, tz: tz})
+	return nil
+}
+
+// edgeShape evaluates the shape functions of an element side with 2 nodes
+// (ends) or 3 nodes (ends, then midside) at s ∈ [−1, 1].
+func edgeShape(n int, s float64, nv, dv []float64) {
+	if n == 2 {
+		nv[0], nv[1] = (1-s)/2, (1+s)/2
+		dv[0], dv[1] = -0.5, 0.5
+		return
+	}
+	nv[0], nv[1], nv[2] = s*(s-1)/2, s*(s+1)/2, 1-s*s
+	dv[0], dv[1], dv[2] = s-0.5, s+0.5, -2*s
+}
+
+// addEdgeLoads adds the consistent nodal forces of the distributed loads
+// to f (all dofs).
+func (m *Model) addEdgeLoads(f []float64) error {
+	pts, wts, _ := gauss1D(3)
+	var nv, dv [3]float64
+	for _, load := range m.edges {
+		for _, ed := range m.mesh.EdgeSets[load.set] {
+			k := len(ed.Nodes)
+			if k != 2 && k != 3 {
+				return fmt.Errorf("fem: edge set %q: side with %d nodes", load.set, k)
+			}
+			region := m.mesh.Regions[m.mesh.Elements[ed.Element].Region]
+			for q, s := range pts {
+				edgeShape(k, s, nv[:k], dv[:k])
+				var x, dxds, dzds float64
+				for a, node := range ed.Nodes {
+					p := m.mesh.Nodes[node]
+					x += nv[a] * p.X
+					dxds += dv[a] * p.X
+					dzds += dv[a] * p.Z
+				}
+				w := wts[q]
+				if m.opt.Condition == material.Axisymmetric {
+					w *= 2 * math.Pi * x
+				} else {
+					w *= region.Thickness
+				}
+				// The body lies left of the side, so (dz/ds, −dx/ds) is the
+				// outward normal scaled by the length element.
+				qx := -load.pressure*dzds + load.tx*math.Hypot(dxds, dzds)
+				qz := load.pressure*dxds + load.tz*math.Hypot(dxds, dzds)
+				for a, node := range ed.Nodes {
+					f[2*node] += w * nv[a] * qx
+					f[2*node+1] += w * nv[a] * qz
+				}
+			}
+		}
+	}
+	return nil
+}
