@@ -1,0 +1,83 @@
+// Command flangeseg is a refined, nonlinear 2D finite-element check of one
+// bolt segment of a bolted ring-flange (L-flange) joint. See `flangeseg help`.
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+)
+
+// Exit codes.
+const (
+	exitOK       = 0
+	exitFailed   = 1 // a verification check did not pass
+	exitBadInput = 2 // bad arguments or model file
+	exitAnalysis = 3 // the analysis could not be completed
+)
+
+// caution is printed by help and written into reports: results can make an
+// unsafe joint look safe if they are used unchecked.
+const caution = `flangeseg is a design aid. Its results must be checked against the governing
+codes (e.g. EN 1993-1-8, EN 1993-1-9) and signed off under local codes and
+licensed engineering practice before any joint is built or accepted.`
+
+type command struct {
+	name    string
+	summary string
+	run     func(args []string, stdout, stderr io.Writer) int
+}
+
+func commands() []command {
+	return []command{
+		{"verify", "run the verification problems of the finite-element core and print a table", runVerify},
+		{"version", "print the version", runVersion},
+		{"help", "show this help, or the help of one command", nil},
+	}
+}
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+func run(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		usage(stderr)
+		return exitBadInput
+	}
+	name := args[0]
+	if name == "help" || name == "-h" || name == "--help" || name == "-help" {
+		if len(args) > 1 {
+			return run([]string{args[1], "--help"}, stdout, stderr)
+		}
+		usage(stdout)
+		return exitOK
+	}
+	for _, c := range commands() {
+		if c.name == name && c.run != nil {
+			return c.run(args[1:], stdout, stderr)
+		}
+	}
+	fmt.Fprintf(stderr, "flangeseg: unknown command %q; run 'flangeseg help' for the list\n", name)
+	return exitBadInput
+}
+
+func usage(w io.Writer) {
+	fmt.Fprintln(w, `flangeseg — nonlinear 2D finite-element check of one bolt segment of a bolted
+L-flange joint in a tubular tower.
+
+Usage:
+  flangeseg <command> [arguments]
+
+Commands:`)
+	for _, c := range commands() {
+		fmt.Fprintf(w, "  %-8s %s\n", c.name, c.summary)
+	}
+	fmt.Fprintf(w, `
+Run 'flangeseg <command> --help' for the flags of a command.
+
+Exit codes: 0 success, 1 a check failed, 2 bad input, 3 the analysis failed.
+
+%s
+`, caution)
+}
