@@ -30,6 +30,7 @@ type command struct {
 
 func commands() []command {
 	return []command{
+		{"validate", "check a model file and print it with its defaults and derived quantities", runValidate},
 		{"verify", "run the verification problems of the finite-element core and print a table", runVerify},
 		{"version", "print the version", runVersion},
 		{"help", "show this help, or the help of one command", nil},
