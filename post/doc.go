@@ -1,6 +1,7 @@
-// Package post turns results into files. This part writes the mesh and its
-// fields as VTK XML files: an unstructured grid (.vtu) per state and a
-// collection (.pvd) that orders the states in time.
+// Package post turns results into files: the mesh and its fields as VTK XML
+// files (an unstructured grid, .vtu, per state and a collection, .pvd, that
+// orders the states in time), CSV tables, JSON documents and line charts
+// (SVG and PNG), all deterministic.
 //
 // Every file is written to a temporary name in its folder and renamed into
 // place only when complete, so a reader never sees half a file and a failed
