@@ -76,18 +76,28 @@ func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, 
 	if m.opt.Formulation == IncompatibleModes {
 		return m.incompatibleResponse(e, ue, fe, ke, pts, s)
 	}
-	law := m.laws[m.mesh.Elements[e].Region]
+	region := m.mesh.Elements[e].Region
+	law := m.laws[region]
+	eigen := m.eigen[region]
+	spring := m.foundation[region]
 	for ip, p := range m.rule {
 		g, err := m.pointGeometry(e, p, s)
 		if err != nil {
 			return err
 		}
 		strain := m.kin.Strain(m.opt.Condition, g, ue)
-		stress, d, err := law.Respond(m.opt.Condition, strain, nil, nil)
+		elastic := strain
+		for c := range elastic {
+			elastic[c] -= eigen[c]
+		}
+		stress, d, err := law.Respond(m.opt.Condition, elastic, nil, nil)
 		if err != nil {
 			return fmt.Errorf("fem: element %d, point %d: %w", e, ip, err)
 		}
 		m.kin.Accumulate(m.opt.Condition, g, ue, stress, &d, fe, ke)
+		if spring != [2]float64{} {
+			addFoundation(g, spring, ue, fe, ke)
+		}
 		if pts != nil {
 			pts[ip] = PointResult{X: g.X, Z: g.Z, Strain: strain, Stress: stress}
 		}
@@ -173,5 +183,75 @@ func (m *Model) addEdgeLoads(f []float64) error {
 			}
 		}
 	}
+	return nil
+}
+
+// addFoundation adds an elastic foundation of stiffness k = (kx, kz) per
+// unit volume (MPa/mm) at one point: f_a = k·N_a·u, the ring-spring
+// stand-in for hoop stiffness (x), or a weak support of a body that is
+// held by contact alone.
+func addFoundation(g *PointGeometry, k [2]float64, ue, fe, ke []float64) {
+	var u [2]float64
+	for a, n := range g.N {
+		u[0] += n * ue[2*a]
+		u[1] += n * ue[2*a+1]
+	}
+	nd := len(ue)
+	for a, na := range g.N {
+		for d := 0; d < 2; d++ {
+			if k[d] == 0 {
+				continue
+			}
+			fe[2*a+d] += g.Weight * k[d] * na * u[d]
+			if ke == nil {
+				continue
+			}
+			for b, nb := range g.N {
+				ke[(2*a+d)*nd+2*b+d] += g.Weight * k[d] * na * nb
+			}
+		}
+	}
+}
+
+// SetEigenstrain imposes a stress-free strain (xx, zz, yy, xz) in every
+// element of a region: the mechanical strain the law sees is the total
+// strain minus this. A negative zz shortens a bolt slice to preload it.
+func (m *Model) SetEigenstrain(region string, strain material.Vec4) error {
+	r, ok := m.mesh.RegionIndex(region)
+	if !ok {
+		return fmt.Errorf("fem: region %q does not exist", region)
+	}
+	if m.opt.Formulation == IncompatibleModes {
+		return fmt.Errorf("fem: region %q: eigenstrains need the standard formulation", region)
+	}
+	m.eigen[r] = strain
+	return nil
+}
+
+// Eigenstrain returns the eigenstrain of a region (zero if none or unknown).
+func (m *Model) Eigenstrain(region string) material.Vec4 {
+	r, ok := m.mesh.RegionIndex(region)
+	if !ok {
+		return material.Vec4{}
+	}
+	return m.eigen[r]
+}
+
+// SetFoundation puts an elastic foundation on a region, kx and kz per unit
+// volume (MPa/mm); for ring springs along a shell of thickness t the
+// stiffness E·t/R² per unit wall area is kx = E/R² spread over the
+// thickness.
+func (m *Model) SetFoundation(region string, kx, kz float64) error {
+	r, ok := m.mesh.RegionIndex(region)
+	if !ok {
+		return fmt.Errorf("fem: region %q does not exist", region)
+	}
+	if !(kx >= 0 && kz >= 0) {
+		return fmt.Errorf("fem: region %q: foundation stiffness (%g, %g): must be >= 0", region, kx, kz)
+	}
+	if m.opt.Formulation == IncompatibleModes {
+		return fmt.Errorf("fem: region %q: foundations need the standard formulation", region)
+	}
+	m.foundation[r] = [2]float64{kx, kz}
 	return nil
 }

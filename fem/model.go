@@ -57,20 +57,23 @@ type term struct {
 // Model is a meshed body with its laws, supports, constraints and loads.
 // Build it with NewModel, then Fix/AddRigidEdge/Add* before the first solve.
 type Model struct {
-	mesh    *mesh.Mesh
-	opt     Options
-	kin     Kinematics
-	laws    []material.Law // per region
-	rule    []naturalPoint
-	nDof    int // node dofs plus master dofs
-	fixed   []bool
-	value   []float64 // prescribed value of fixed dofs
-	depends [][]term  // non-nil for a node dof tied to rigid-edge masters
-	force   []float64 // nodal external forces, all dofs
-	edges   []edgeLoad
-	edgeSet []string // rigid-edge names, for messages
-	eq      []int    // dof → equation, −1 if fixed or dependent; nil until numbered
-	nEq     int
+	mesh  *mesh.Mesh
+	opt   Options
+	kin   Kinematics
+	laws  []material.Law  // per region
+	eigen []material.Vec4 // per region: stress-free strain (bolt preload)
+	// foundation per region: elastic support in x per unit volume (ring springs)
+	foundation [][2]float64
+	rule       []naturalPoint
+	nDof       int // node dofs plus master dofs
+	fixed      []bool
+	value      []float64 // prescribed value of fixed dofs
+	depends    [][]term  // non-nil for a node dof tied to rigid-edge masters
+	force      []float64 // nodal external forces, all dofs
+	edges      []edgeLoad
+	edgeSet    []string // rigid-edge names, for messages
+	eq         []int    // dof → equation, −1 if fixed or dependent; nil until numbered
+	nEq        int
 }
 
 // NewModel checks the mesh against the laws (one for every region's
@@ -122,6 +125,8 @@ func NewModel(m *mesh.Mesh, laws map[string]material.Law, opt Options) (*Model, 
 			}
 		}
 	}
+	md.eigen = make([]material.Vec4, len(m.Regions))
+	md.foundation = make([][2]float64, len(m.Regions))
 	md.grow(2 * len(m.Nodes))
 	return md, nil
 }
@@ -173,6 +178,22 @@ func (m *Model) checkDof(d Dof) error {
 	return nil
 }
 
+// SetValue changes the prescribed value of a dof that is already fixed,
+// keeping the equation numbering (displacement control between increments).
+func (m *Model) SetValue(d Dof, value float64) error {
+	if err := m.checkDof(d); err != nil {
+		return err
+	}
+	if !m.fixed[d] {
+		return fmt.Errorf("fem: %s is not prescribed", m.DescribeDof(d))
+	}
+	m.value[d] = value
+	return nil
+}
+
+// Value is the prescribed value of a fixed dof.
+func (m *Model) Value(d Dof) float64 { return m.value[d] }
+
 // Fix prescribes the value of a dof (0 for a support).
 func (m *Model) Fix(d Dof, value float64) error {
 	if err := m.checkDof(d); err != nil {
@@ -216,6 +237,11 @@ func (m *Model) AddForce(d Dof, f float64) error {
 type RigidEdgeOptions struct {
 	FixLateral  bool // x translation held at zero
 	FixRotation bool // rotation held at zero
+	// LateralFree leaves the nodes' x displacements untied: the edge is
+	// rigid in z and rotation only, so its length may change (Poisson
+	// contraction is not held back). The Lateral master is then unused
+	// and held at zero.
+	LateralFree bool
 }
 
 // RigidEdge is a set of nodes that moves as one rigid line, driven by its
@@ -239,15 +265,21 @@ func (m *Model) AddRigidEdge(set string, ref mesh.Point, opt RigidEdgeOptions) (
 	for _, n := range nodes {
 		p := m.mesh.Nodes[n]
 		dx, dz := m.NodeDof(n, X), m.NodeDof(n, Z)
-		for _, d := range [2]Dof{dx, dz} {
+		tied := []Dof{dx, dz}
+		if opt.LateralFree {
+			tied = tied[1:]
+		}
+		for _, d := range tied {
 			if m.fixed[d] || m.depends[d] != nil {
 				return RigidEdge{}, fmt.Errorf("fem: rigid edge %q: %s is already constrained", set, m.DescribeDof(d))
 			}
 		}
-		m.depends[dx] = []term{{re.Lateral, 1}, {re.Rotation, -(p.Z - ref.Z)}}
+		if !opt.LateralFree {
+			m.depends[dx] = []term{{re.Lateral, 1}, {re.Rotation, -(p.Z - ref.Z)}}
+		}
 		m.depends[dz] = []term{{re.Axial, 1}, {re.Rotation, p.X - ref.X}}
 	}
-	if opt.FixLateral {
+	if opt.FixLateral || opt.LateralFree {
 		m.fixed[re.Lateral] = true
 	}
 	if opt.FixRotation {

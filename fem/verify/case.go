@@ -61,6 +61,8 @@ func Cases() []Case {
 		{"LE1", "The Standard NAFEMS Benchmarks (1990), LE1", runLE1},
 		{"lame", "Lamé, Timoshenko & Goodier, Theory of Elasticity", runLame},
 		{"kirsch", "Kirsch, Timoshenko & Goodier, Theory of Elasticity", runKirsch},
+		{"hertz", "Hertz; K. L. Johnson, Contact Mechanics (1985)", runHertz},
+		{"contact-patch", "contact patch test (Taylor & Papadopoulos 1991)", runContactPatch},
 	}
 }
 

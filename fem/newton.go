@@ -1,0 +1,444 @@
+package fem
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+	"time"
+
+	"flangeseg/contact"
+	"flangeseg/fem/sparse"
+)
+
+// ContactPair is what the solver needs of a contact pair; *contact.Pair
+// implements it.
+type ContactPair interface {
+	Name() string
+	Evaluate(cur []contact.Point, tangent bool, add func(dofs []int, f, k []float64) error) error
+	Couplings(cur []contact.Point) [][]int
+	Augment(cur []contact.Point) (maxPenetration float64, again bool)
+	Commit()
+	Revert()
+}
+
+// NewtonOptions tune the equilibrium iterations.
+type NewtonOptions struct {
+	MaxIterations int     // per equilibrium solve (default 30)
+	Tolerance     float64 // ‖residual‖ ≤ Tolerance·‖internal force‖ (default 1e-8)
+	MaxAugments   int     // augmented-Lagrangian updates per solve (default 25)
+	// Log, if set, receives one line per iteration (the --verbose log).
+	Log func(line string)
+}
+
+func (o *NewtonOptions) defaults() {
+	if o.MaxIterations == 0 {
+		o.MaxIterations = 30
+	}
+	if o.Tolerance == 0 {
+		o.Tolerance = 1e-8
+	}
+	if o.MaxAugments == 0 {
+		o.MaxAugments = 25
+	}
+}
+
+// Timing splits the solver's work time.
+type Timing struct {
+	Assembly, Contact, Factorization, Analysis time.Duration
+	Iterations, Factorizations, Analyses       int
+}
+
+// NotConvergedError reports an equilibrium solve that failed; the solver
+// is back at its last converged state.
+type NotConvergedError struct {
+	Iterations int
+	Residual   float64 // relative residual at the last iteration
+	Reason     string
+}
+
+func (e *NotConvergedError) Error() string {
+	return fmt.Sprintf("fem: no equilibrium after %d iterations (relative residual %.3g): %s", e.Iterations, e.Residual, e.Reason)
+}
+
+// Solver finds equilibrium of a model with contact, increment by
+// increment, from its last converged state.
+type Solver struct {
+	m       *Model
+	opt     NewtonOptions
+	a       *assembler
+	pairs   []ContactPair
+	groups  [][]int // element groups, then contact groups seen so far
+	seen    map[string]bool
+	k       *sparse.Matrix
+	sym     *sparse.Symbolic
+	chol    sparse.Cholesky
+	u       []float64 // current (trial) dof values
+	done    []float64 // last converged
+	fint    []float64
+	cur     []contact.Point
+	Timing  Timing
+	lastRes float64
+}
+
+// NewSolver numbers the model and builds the first sparsity pattern.
+// Supports, rigid edges and loads must be in place; prescribed values may
+// change later through Model.SetValue.
+func NewSolver(m *Model, pairs []ContactPair, opt NewtonOptions) (*Solver, error) {
+	opt.defaults()
+	m.Number()
+	s := &Solver{m: m, opt: opt, a: newAssembler(m), pairs: pairs, seen: map[string]bool{}}
+	for _, g := range s.a.eqIdx {
+		s.groups = append(s.groups, g)
+	}
+	s.u = make([]float64, m.nDof)
+	s.done = make([]float64, m.nDof)
+	s.fint = make([]float64, m.nDof)
+	s.cur = make([]contact.Point, len(m.mesh.Nodes))
+	s.applyPrescribed()
+	copy(s.done, s.u)
+	if err := s.rebuild(); err != nil {
+		return nil, err
+	}
+	return s, nil
+}
+
+// Model returns the solver's model.
+func (s *Solver) Model() *Model { return s.m }
+
+// U is the current dof vector (read only).
+func (s *Solver) U() []float64 { return s.u }
+
+// Current returns the deformed node positions.
+func (s *Solver) Current() []contact.Point {
+	s.updateCurrent()
+	return s.cur
+}
+
+func (s *Solver) applyPrescribed() {
+	for d, f := range s.m.fixed {
+		if f {
+			s.u[d] = s.m.value[d]
+		}
+	}
+	s.m.expand(s.u)
+}
+
+func (s *Solver) updateCurrent() {
+	for n, p := range s.m.mesh.Nodes {
+		s.cur[n] = contact.Point{X: p.X + s.u[2*n], Z: p.Z + s.u[2*n+1]}
+	}
+}
+
+// groupKey identifies a coupling group by its sorted equations.
+func groupKey(g []int) string {
+	q := slices.Clone(g)
+	slices.Sort(q)
+	var b strings.Builder
+	for _, v := range q {
+		if v >= 0 {
+			b.WriteString(strconv.Itoa(v))
+			b.WriteByte(',')
+		}
+	}
+	return b.String()
+}
+
+// ensurePattern adds the contact couplings at the current positions to the
+// pattern, rebuilding it (and the symbolic analysis) when one is new.
+func (s *Solver) ensurePattern() error {
+	fresh := false
+	for _, p := range s.pairs {
+		for _, dofs := range p.Couplings(s.cur) {
+			g := s.equations(dofs)
+			key := groupKey(g)
+			if s.seen[key] {
+				continue
+			}
+			s.seen[key] = true
+			s.groups = append(s.groups, g)
+			fresh = true
+		}
+	}
+	if !fresh {
+		return nil
+	}
+	return s.rebuild()
+}
+
+// equations maps node dofs to equations (tied dofs to their masters).
+func (s *Solver) equations(dofs []int) []int {
+	var g []int
+	for _, d := range dofs {
+		if ts := s.m.depends[d]; ts != nil {
+			for _, t := range ts {
+				g = append(g, s.m.eq[t.master])
+			}
+			continue
+		}
+		g = append(g, s.m.eq[d])
+	}
+	return g
+}
+
+func (s *Solver) rebuild() error {
+	start := time.Now()
+	k, err := sparse.NewPattern(s.m.nEq, s.groups)
+	if err != nil {
+		return fmt.Errorf("fem: sparsity pattern: %w", err)
+	}
+	sym, err := sparse.Analyze(k, sparse.OrderAMD)
+	if err != nil {
+		return fmt.Errorf("fem: ordering: %w", err)
+	}
+	s.k, s.sym = k, sym
+	s.Timing.Analysis += time.Since(start)
+	s.Timing.Analyses++
+	return nil
+}
+
+// assemble computes internal and contact forces and, if tangent, the
+// tangent at s.u.
+func (s *Solver) assemble(tangent bool) error {
+	var k *sparse.Matrix
+	if tangent {
+		k = s.k
+	}
+	start := time.Now()
+	if err := s.a.assemble(s.u, s.fint, k, nil); err != nil {
+		return err
+	}
+	mid := time.Now()
+	s.Timing.Assembly += mid.Sub(start)
+	s.updateCurrent()
+	for _, p := range s.pairs {
+		err := p.Evaluate(s.cur, tangent, func(dofs []int, f, kc []float64) error {
+			return s.addContact(dofs, f, kc, k)
+		})
+		if err != nil {
+			return fmt.Errorf("fem: contact %q: %w", p.Name(), err)
+		}
+	}
+	s.Timing.Contact += time.Since(mid)
+	return nil
+}
+
+func (s *Solver) addContact(dofs []int, f, kc []float64, k *sparse.Matrix) error {
+	for i, d := range dofs {
+		s.fint[d] += f[i]
+	}
+	if k == nil || kc == nil {
+		return nil
+	}
+	ds := make([]Dof, len(dofs))
+	tied := false
+	for i, d := range dofs {
+		ds[i] = Dof(d)
+		tied = tied || s.m.depends[d] != nil
+	}
+	idx := make([]int, 0, len(dofs))
+	if !tied {
+		for _, d := range dofs {
+			idx = append(idx, s.m.eq[d])
+		}
+		return k.AddDense(idx, kc)
+	}
+	indep, t := s.m.tieMap(ds)
+	em := elementMap{dofs: ds, indep: indep, t: t}
+	for _, d := range indep {
+		idx = append(idx, s.m.eq[d])
+	}
+	return k.AddDense(idx, s.a.transform(&em, kc))
+}
+
+// Equilibrium iterates to equilibrium at the model's current prescribed
+// values and loads, starting from the current state, with
+// augmented-Lagrangian updates of the contact pairs until every pair's
+// penetration is within its tolerance. It returns the Newton iterations
+// used. On failure the state is left as it is: call Revert.
+func (s *Solver) Equilibrium() (int, error) {
+	s.applyPrescribed()
+	s.updateCurrent()
+	fext, err := s.m.externalForces()
+	if err != nil {
+		return 0, err
+	}
+	total := 0
+	for aug := 0; ; aug++ {
+		n, err := s.newton(fext)
+		total += n
+		if err != nil {
+			return total, err
+		}
+		again := false
+		for _, p := range s.pairs {
+			if _, more := p.Augment(s.cur); more {
+				again = true
+			}
+		}
+		if !again {
+			return total, nil
+		}
+		if aug == s.opt.MaxAugments {
+			return total, &NotConvergedError{Iterations: total, Residual: s.lastRes,
+				Reason: fmt.Sprintf("contact penetration still above its tolerance after %d multiplier updates", aug)}
+		}
+	}
+}
+
+func (s *Solver) newton(fext []float64) (int, error) {
+	du := make([]float64, s.m.nEq)
+	for it := 1; ; it++ {
+		if err := s.ensurePattern(); err != nil {
+			return it, err
+		}
+		if err := s.assemble(true); err != nil {
+			return it, err
+		}
+		r := s.m.freeResidual(fext, s.fint)
+		ref := math.Max(norm(s.fint), norm(fext))
+		rel := 0.0
+		if ref > 0 {
+			rel = norm(r) / ref
+		}
+		s.lastRes = rel
+		s.Timing.Iterations++
+		if s.opt.Log != nil {
+			s.opt.Log(fmt.Sprintf("  iteration %2d  relative residual %.3e", it, rel))
+		}
+		if rel <= s.opt.Tolerance {
+			return it - 1, nil
+		}
+		if math.IsNaN(rel) || it > s.opt.MaxIterations {
+			return it - 1, &NotConvergedError{Iterations: it - 1, Residual: rel, Reason: "the residual does not fall below the tolerance"}
+		}
+		start := time.Now()
+		if err := s.chol.Factorize(s.sym, s.k); err != nil {
+			s.Timing.Factorization += time.Since(start)
+			return it, s.m.factorError(err)
+		}
+		if err := s.chol.SolveVecTo(du, r); err != nil {
+			return it, err
+		}
+		s.Timing.Factorization += time.Since(start)
+		s.Timing.Factorizations++
+		s.m.update(s.u, du)
+	}
+}
+
+// Commit accepts the current state as converged.
+func (s *Solver) Commit() {
+	copy(s.done, s.u)
+	for _, p := range s.pairs {
+		p.Commit()
+	}
+}
+
+// Revert returns to the last converged state.
+func (s *Solver) Revert() {
+	copy(s.u, s.done)
+	for _, p := range s.pairs {
+		p.Revert()
+	}
+	s.updateCurrent()
+}
+
+// Reaction is the generalised force the constraints exert at dof d in the
+// current state (after Equilibrium): a rigid edge's master collects its
+// nodes' forces.
+func (s *Solver) Reaction(d Dof) (float64, error) {
+	if err := s.assemble(false); err != nil {
+		return 0, err
+	}
+	fext, err := s.m.externalForces()
+	if err != nil {
+		return 0, err
+	}
+	r := make([]float64, s.m.nDof)
+	for i := range r {
+		r[i] = s.fint[i] - fext[i]
+	}
+	s.m.reduce(r)
+	return r[d], nil
+}
+
+// NodeSetReaction sums the constraint forces (x, z) over a node set.
+func (s *Solver) NodeSetReaction(set string) (rx, rz float64, err error) {
+	nodes, ok := s.m.mesh.NodeSets[set]
+	if !ok {
+		return 0, 0, fmt.Errorf("fem: node set %q does not exist", set)
+	}
+	if err := s.assemble(false); err != nil {
+		return 0, 0, err
+	}
+	fext, err := s.m.externalForces()
+	if err != nil {
+		return 0, 0, err
+	}
+	for _, n := range nodes {
+		rx += s.fint[2*n] - fext[2*n]
+		rz += s.fint[2*n+1] - fext[2*n+1]
+	}
+	return rx, rz, nil
+}
+
+// SectionForce cuts a body along the node line nodes and returns the
+// resultant that the elements elems (one side of the cut) carry there:
+// the normal force in z (tension positive when elems lie above the cut),
+// the shear in x, and the moment about x = x0 (positive when the side
+// x > x0 carries more tension). The nodal internal forces of the elements
+// are the consistent integral of their section stresses.
+func (s *Solver) SectionForce(elems []int, nodes []int, x0 float64) (normal, shear, moment float64, err error) {
+	on := map[int]bool{}
+	for _, n := range nodes {
+		on[n] = true
+	}
+	sc := newScratch()
+	for _, e := range elems {
+		el := s.m.mesh.Elements[e]
+		nd := 2 * len(el.Nodes)
+		ue, fe := sc.ue[:nd], sc.fe[:nd]
+		for a, n := range el.Nodes {
+			ue[2*a], ue[2*a+1] = s.u[2*n], s.u[2*n+1]
+		}
+		if err := s.m.elementResponse(e, ue, fe, nil, nil, sc); err != nil {
+			return 0, 0, 0, err
+		}
+		for a, n := range el.Nodes {
+			if !on[n] {
+				continue
+			}
+			normal -= fe[2*a+1]
+			shear -= fe[2*a]
+			moment -= fe[2*a+1] * (s.m.mesh.Nodes[n].X - x0)
+		}
+	}
+	return normal, shear, moment, nil
+}
+
+// Points returns the integration point results in the current state.
+func (s *Solver) Points() ([][]PointResult, error) {
+	pts := s.m.newPointResults()
+	if err := s.a.assemble(s.u, s.fint, nil, pts); err != nil {
+		return nil, err
+	}
+	return pts, nil
+}
+
+// Snapshot returns the current state as a Solution (for stresses and
+// field output).
+func (s *Solver) Snapshot() (*Solution, error) {
+	pts, err := s.Points()
+	if err != nil {
+		return nil, err
+	}
+	return &Solution{model: s.m, U: slices.Clone(s.u), Points: pts, Equations: s.m.nEq, FactorNonzeros: s.sym.FactorNNZ()}, nil
+}
+
+// IsNotConverged reports whether err is a failed equilibrium solve.
+func IsNotConverged(err error) bool {
+	var nc *NotConvergedError
+	return errors.As(err, &nc)
+}

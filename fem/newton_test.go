@@ -1,0 +1,163 @@
+package fem
+
+import (
+	"math"
+	"testing"
+
+	"flangeseg/material"
+	"flangeseg/mesh"
+)
+
+// stackedBar is a plane-stress bar of three blocks along z: bottom, slice,
+// top, 10 mm wide, 1 mm thick; the slice is 10 mm long, the bar 100 mm.
+func stackedBar(t *testing.T) *mesh.Mesh {
+	t.Helper()
+	v := []mesh.Point{{X: 0, Z: 0}, {X: 10, Z: 0}, {X: 10, Z: 45}, {X: 0, Z: 45}, {X: 10, Z: 55}, {X: 0, Z: 55}, {X: 10, Z: 100}, {X: 0, Z: 100}}
+	blk := func(c [4]int, n int, region string, sides [4]string) mesh.Block {
+		return mesh.Block{Corners: c, Divisions: [2]int{2, n}, Region: region, Sides: sides}
+	}
+	plan := mesh.Plan{
+		Vertices: v,
+		Blocks: []mesh.Block{
+			blk([4]int{0, 1, 2, 3}, 6, "bar", [4]string{"bottom", "", "", ""}),
+			blk([4]int{3, 2, 4, 5}, 2, "slice", [4]string{"", "", "", ""}),
+			blk([4]int{5, 4, 6, 7}, 6, "bar", [4]string{"", "", "top", ""}),
+		},
+		Regions: []mesh.Region{{Name: "bar", Thickness: 1, Material: "steel"}, {Name: "slice", Thickness: 1, Material: "steel"}},
+		Sets:    []mesh.VertexSet{{Name: "cut", Vertex: 5}},
+	}
+	m, err := mesh.Build(plan, mesh.Quad8)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return m
+}
+
+// A bar held at both ends with a shortened slice carries the uniaxial force
+// σ·A with σ = E·ε·l_slice/L (springs in series, statics); Preload finds the
+// eigenstrain for a target force within the tolerance asked.
+func TestPreloadBar(t *testing.T) {
+	msh := stackedBar(t)
+	m, err := NewModel(msh, steel, Options{Condition: material.PlaneStress})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := m.FixSet("bottom", Z, 0); err != nil {
+		t.Fatal(err)
+	}
+	if err := m.Fix(m.NodeDof(msh.NearestNode(mesh.Point{}), X), 0); err != nil {
+		t.Fatal(err)
+	}
+	edge, err := m.AddRigidEdge("top", mesh.Point{X: 5, Z: 100}, RigidEdgeOptions{FixRotation: true, LateralFree: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := m.Fix(edge.Axial, 0); err != nil {
+		t.Fatal(err)
+	}
+	s, err := NewSolver(m, nil, NewtonOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The section at z = 80 (top block), elements above it.
+	var above, cut []int
+	for e, el := range msh.Elements {
+		z := 0.0
+		for _, n := range el.Nodes {
+			z += msh.Nodes[n].Z / float64(len(el.Nodes))
+		}
+		if z > 55 {
+			above = append(above, e)
+		}
+	}
+	for n, p := range msh.Nodes {
+		if math.Abs(p.Z-55) < 1e-9 {
+			cut = append(cut, n)
+		}
+	}
+	force := func() (float64, error) {
+		f, _, _, err := s.SectionForce(above, cut, 5)
+		return f, err
+	}
+	const target = 12000.0 // N
+	res, err := s.Preload("slice", target, 0.005, force)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(res.Force-target) > 0.005*target {
+		t.Errorf("preload %g N, want %g ± 0.5 %%", res.Force, target)
+	}
+	want := -target / (10 * 1) / 210000 * 100 / 10 // ε = σ L / (E l_slice)
+	if math.Abs(res.Eigenstrain-want) > 1e-6*math.Abs(want) {
+		t.Errorf("eigenstrain %g, want %g (series springs)", res.Eigenstrain, want)
+	}
+	pull, err := s.Reaction(edge.Axial)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(pull-res.Force) > 1e-6*target { // the edge pulls the shortened bar up
+		t.Errorf("edge reaction %g N, section force %g N", pull, res.Force)
+	}
+}
+
+// Ramping a rigid-edge pull through the Newton solver gives the same
+// response as the linear solve (a linear model converges in one step).
+func TestRampMatchesLinear(t *testing.T) {
+	msh := stackedBar(t)
+	build := func() (*Model, RigidEdge) {
+		m, err := NewModel(msh, steel, Options{Condition: material.PlaneStress})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := m.FixSet("bottom", Z, 0); err != nil {
+			t.Fatal(err)
+		}
+		if err := m.Fix(m.NodeDof(msh.NearestNode(mesh.Point{}), X), 0); err != nil {
+			t.Fatal(err)
+		}
+		edge, err := m.AddRigidEdge("top", mesh.Point{X: 5, Z: 100}, RigidEdgeOptions{FixRotation: true, LateralFree: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := m.Fix(edge.Axial, 0); err != nil {
+			t.Fatal(err)
+		}
+		return m, edge
+	}
+	m, edge := build()
+	s, err := NewSolver(m, nil, NewtonOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var last Increment
+	err = s.Ramp(edge.Axial, 0.1, RampOptions{Increments: 4}, func(inc Increment) (bool, error) {
+		last = inc
+		if inc.Iterations > 1 {
+			t.Errorf("increment %d: %d iterations for a linear model", inc.Index, inc.Iterations)
+		}
+		return false, nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if last.Index != 4 || math.Abs(last.Value-0.1) > 1e-15 {
+		t.Errorf("last increment %+v", last)
+	}
+	pull, _ := s.Reaction(edge.Axial)
+	lm, ledge := build()
+	if err := lm.SetValue(ledge.Axial, 0.1); err != nil {
+		t.Fatal(err)
+	}
+	sol, err := lm.SolveLinear(LinearOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := sol.DofReaction(ledge.Axial)
+	if math.Abs(pull-want) > 1e-9*math.Abs(want) {
+		t.Errorf("ramp pull %g N, linear %g N", pull, want)
+	}
+	// Bar force: E·A·u/L.
+	if exact := 210000 * 10 * 0.1 / 100; math.Abs(want-exact) > 1e-6*exact {
+		t.Errorf("pull %g N, E·A·u/L = %g N", want, exact)
+	}
+}

@@ -1,0 +1,144 @@
+package fem
+
+import (
+	"fmt"
+	"math"
+)
+
+// Increment is one converged step of a ramp.
+type Increment struct {
+	Index      int     // 1-based count of converged increments in the ramp
+	Value      float64 // prescribed value reached
+	Fraction   float64 // of the ramp, 0…1
+	Iterations int     // Newton iterations of this increment
+	Cuts       int     // step halvings needed on the way to it
+}
+
+// RampOptions control a displacement-controlled ramp.
+type RampOptions struct {
+	Increments int // equal steps to the target (≥ 1)
+	MaxCuts    int // halvings of a failing step before giving up (default 6)
+}
+
+// Ramp moves the prescribed dof d from its current value to target in
+// equal increments, halving a step that does not converge (at most
+// MaxCuts times in a row) and growing it back after success. After every
+// converged increment the state is committed and done is called; done may
+// stop the ramp by returning true. A ramp that cannot go on returns a
+// *NotConvergedError and leaves the solver at the last converged
+// increment.
+func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Increment) (stop bool, err error)) error {
+	if opt.Increments < 1 {
+		return fmt.Errorf("fem: ramp with %d increments: need at least 1", opt.Increments)
+	}
+	if opt.MaxCuts == 0 {
+		opt.MaxCuts = 6
+	}
+	start := s.m.Value(d)
+	span := target - start
+	step := 1.0 / float64(opt.Increments)
+	at, count, cuts := 0.0, 0, 0
+	for at < 1-1e-12 {
+		next := math.Min(1, at+step)
+		if err := s.m.SetValue(d, start+next*span); err != nil {
+			return err
+		}
+		its, err := s.Equilibrium()
+		if err != nil {
+			s.Revert()
+			if err := s.m.SetValue(d, start+at*span); err != nil {
+				return err
+			}
+			if !IsNotConverged(err) {
+				return err
+			}
+			if cuts == opt.MaxCuts {
+				return fmt.Errorf("fem: ramp stopped at %.4g of %.4g after %d step halvings: %w", start+at*span, target, cuts, err)
+			}
+			cuts++
+			step /= 2
+			continue
+		}
+		s.Commit()
+		at = next
+		count++
+		stop, err := done(Increment{Index: count, Value: start + at*span, Fraction: at, Iterations: its, Cuts: cuts})
+		if err != nil || stop {
+			return err
+		}
+		if cuts > 0 {
+			step = math.Min(1.0/float64(opt.Increments), 2*step)
+			cuts = 0
+		}
+	}
+	return nil
+}
+
+// PreloadResult reports how a preload target was met.
+type PreloadResult struct {
+	Eigenstrain float64 // zz strain locked into the slice
+	Force       float64 // bolt force reached, N
+	Iterations  int     // equilibrium solves used
+}
+
+// Preload finds the axial eigenstrain of region that makes force() equal
+// target within rel (relative), by secant steps on the eigenstrain; each
+// step is an equilibrium solve. force measures the bolt force in the
+// current state. The state is committed at the end.
+func (s *Solver) Preload(region string, target, rel float64, force func() (float64, error)) (PreloadResult, error) {
+	if !(target > 0) {
+		return PreloadResult{}, fmt.Errorf("fem: preload target %g N: must be positive", target)
+	}
+	solveAt := func(e float64) (float64, error) {
+		if err := s.m.SetEigenstrain(region, eigenZZ(e)); err != nil {
+			return 0, err
+		}
+		if _, err := s.Equilibrium(); err != nil {
+			s.Revert()
+			return 0, err
+		}
+		return force()
+	}
+	e0, f0 := 0.0, 0.0
+	e1 := -1e-3
+	f1, err := solveAt(e1)
+	if err != nil {
+		return PreloadResult{}, err
+	}
+	for it := 1; it <= 30; it++ {
+		if math.Abs(f1-target) <= rel*target {
+			s.Commit()
+			return PreloadResult{Eigenstrain: e1, Force: f1, Iterations: it}, nil
+		}
+		if f1 == f0 {
+			return PreloadResult{}, fmt.Errorf("fem: preload: bolt force does not respond to the shortening of %q", region)
+		}
+		e2 := e1 + (target-f1)*(e1-e0)/(f1-f0)
+		e0, f0 = e1, f1
+		e1 = e2
+		if f1, err = solveAt(e1); err != nil {
+			return PreloadResult{}, err
+		}
+	}
+	return PreloadResult{}, fmt.Errorf("fem: preload: %g N not reached within 30 steps (last %g N)", target, f1)
+}
+
+// Shorten locks a prescribed shortening (mm) over a slice of length
+// sliceLength into region as an eigenstrain and finds equilibrium: the
+// nut-turn way of preloading.
+func (s *Solver) Shorten(region string, shortening, sliceLength float64) error {
+	if !(sliceLength > 0) {
+		return fmt.Errorf("fem: preload slice length %g: must be positive", sliceLength)
+	}
+	if err := s.m.SetEigenstrain(region, eigenZZ(-shortening/sliceLength)); err != nil {
+		return err
+	}
+	if _, err := s.Equilibrium(); err != nil {
+		s.Revert()
+		return err
+	}
+	s.Commit()
+	return nil
+}
+
+func eigenZZ(e float64) [4]float64 { return [4]float64{0, e, 0, 0} }
