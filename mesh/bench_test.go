@@ -45,3 +45,14 @@ func BenchmarkQualityQuad8(b *testing.B) {
 		m.Quality()
 	}
 }
+
+// BenchmarkBuildFlangeSegment builds the demo-like segment with a neck
+// fillet in Quad8 elements (about 12 700 nodes).
+func BenchmarkBuildFlangeSegment(b *testing.B) {
+	g := demoSegment(20, Quad8)
+	for b.Loop() {
+		if _, err := BuildFlangeSegment(g, demoMaterials); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -14,10 +14,14 @@ import (
 // counter-clockwise neighbours do). Nodes are numbered block by block, each
 // block's grid row by row from corner 0; elements follow the same order.
 //
+// Blocks of different Body share no vertex: each body gets its own nodes,
+// and the elements carry the block's Body.
+//
 // Build reports every fault of the plan it finds: a region name not in
 // Regions, a clockwise or degenerate block, divisions below 1, a side shared
-// by more than two blocks or shared inconsistently, a curve that is no block
-// side. It does not look for inverted elements; call Check for that.
+// by more than two blocks or shared inconsistently, a vertex shared by two
+// bodies, a curve that is no block side. It does not look for inverted
+// elements; call Check for that.
 func Build(p Plan, kind Kind) (*Mesh, error) {
 	if !kind.valid() {
 		return nil, fmt.Errorf("mesh: element kind %d is neither Quad4 nor Quad8", int(kind))
@@ -61,6 +65,7 @@ func (b *builder) prepare() error {
 		return errors.Join(errs...)
 	}
 	errs = b.checkSides()
+	errs = append(errs, b.checkBodies()...)
 	b.makeSideFns()
 	errs = append(errs, b.checkOrientation()...)
 	errs = append(errs, b.checkSets()...)
@@ -139,6 +144,27 @@ func (b *builder) checkBlocks() []error {
 		}
 		if _, ok := b.regionIdx[blk.Region]; !ok {
 			errs = append(errs, fmt.Errorf("%s: region %q is not in Plan.Regions", name, blk.Region))
+		}
+	}
+	return errs
+}
+
+// checkBodies rejects a vertex that is a corner of blocks of two bodies,
+// since the vertex's node would join the bodies.
+func (b *builder) checkBodies() []error {
+	var errs []error
+	owner := make([]int, len(b.plan.Vertices)) // block index + 1, 0 = unused
+	reported := make([]bool, len(b.plan.Vertices))
+	for bi, blk := range b.plan.Blocks {
+		for _, c := range blk.Corners {
+			switch o := owner[c] - 1; {
+			case o < 0:
+				owner[c] = bi + 1
+			case b.plan.Blocks[o].Body != blk.Body && !reported[c]:
+				reported[c] = true
+				errs = append(errs, fmt.Errorf("vertex %d is a corner of %s (body %d) and %s (body %d); bodies share no vertices",
+					c, blockName(o, b.plan.Blocks[o]), b.plan.Blocks[o].Body, blockName(bi, blk), blk.Body))
+			}
 		}
 	}
 	return errs
@@ -436,17 +462,18 @@ func (b *builder) gridNode(bi, i, j, mu, mv int, u, v float64) int {
 	case i == 0 && j == mv:
 		return b.vertex(blk.Corners[3])
 	}
-	// On a side: which one, and the grid index counted from corner s.
-	s, k, m := -1, 0, 0
+	// On a side: which one, the grid index counted from corner s and the
+	// side's parameter there.
+	s, k, m, t := -1, 0, 0, 0.0
 	switch {
 	case j == 0:
-		s, k, m = 0, i, mu
+		s, k, m, t = 0, i, mu, u
 	case i == mu:
-		s, k, m = 1, j, mv
+		s, k, m, t = 1, j, mv, v
 	case j == mv:
-		s, k, m = 2, mu-i, mu
+		s, k, m, t = 2, mu-i, mu, 1-u
 	case i == 0:
-		s, k, m = 3, mv-j, mv
+		s, k, m, t = 3, mv-j, mv, 1-v
 	}
 	if s < 0 {
 		return b.newNode(b.coons(bi, u, v))
@@ -464,7 +491,9 @@ func (b *builder) gridNode(bi, i, j, mu, mv int, u, v float64) int {
 		k = m - k
 	}
 	if along[k] < 0 {
-		along[k] = b.newNode(b.coons(bi, u, v))
+		// The side's own map, which the Coons map matches there only to
+		// rounding: a straight side along z = const keeps its z exactly.
+		along[k] = b.newNode(b.sideFns[bi][s](t))
 	}
 	return along[k]
 }
@@ -520,7 +549,7 @@ func (b *builder) blockElements(bi int, grid []int, mu int) {
 			if b.kind == Quad8 {
 				all = append(all, at(i+1, j), at(i+2, j+1), at(i+1, j+2), at(i, j+1))
 			}
-			b.mesh.Elements = append(b.mesh.Elements, Element{Nodes: all[start : start+nk : start+nk], Region: region})
+			b.mesh.Elements = append(b.mesh.Elements, Element{Nodes: all[start : start+nk : start+nk], Region: region, Body: blk.Body})
 		}
 	}
 }

@@ -33,9 +33,14 @@ func (k Kind) valid() bool { return k == Quad4 || k == Quad8 }
 // Element is one quadrilateral. Nodes holds the corners counter-clockwise
 // n0 n1 n2 n3, then for Quad8 the midside nodes of sides 0-1, 1-2, 2-3 and
 // 3-0 (also the node order of VTK's quadratic quad).
+//
+// Body numbers the separately meshed part the element belongs to (the
+// Block.Body it came from). Elements of different bodies share no nodes, so
+// their nodes may coincide where the bodies touch.
 type Element struct {
 	Nodes  []int
 	Region int // index into Mesh.Regions
+	Body   int
 }
 
 // Region is a named part of the section with its own thickness and material.

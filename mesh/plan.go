@@ -22,13 +22,16 @@ type Curve struct {
 
 // Block is a quadrilateral patch mapped from the unit square by transfinite
 // (Coons) interpolation of its four sides. Side s runs from corner s to
-// corner s+1 (mod 4).
+// corner s+1 (mod 4). Blocks of different Body share no vertex, so they
+// are meshed as separate parts whose nodes may coincide (two flanges
+// pressed together, a washer on a flange).
 type Block struct {
 	Corners   [4]int     // vertex indices, counter-clockwise
 	Divisions [2]int     // elements along side 0 (c0→c1, also side 2) and side 1 (c1→c2, also side 3)
 	Grading   [2]float64 // last/first element length along c0→c1 and c1→c2; 0 or 1 = uniform
 	Region    string
 	Sides     [4]string // edge-set names for sides 0..3 ("" = none); each also becomes a node set
+	Body      int       // part number, copied to the elements
 }
 
 // VertexSet names the node at one vertex. Sets of the same name, and an

@@ -116,9 +116,12 @@ const maxReported = 20
 
 // Check returns an error listing the faults of the mesh: an unknown kind,
 // elements with the wrong number of nodes or with missing nodes or regions,
-// node and edge sets that point nowhere, nodes that coincide within 1e-9 of
-// the mesh's extent, and elements whose Jacobian determinant is not
-// positive (below 1e-12 of its largest value) at a 3×3 Gauss point or a node.
+// node and edge sets that point nowhere, a node used by elements of two
+// bodies, nodes of one body that coincide within 1e-9 of the mesh's extent,
+// and elements whose Jacobian determinant is not positive (below 1e-12 of
+// its largest value) at a 3×3 Gauss point or a node. Coincident nodes of
+// different bodies are legitimate (parts in contact); a node that no
+// element uses counts as belonging to every body.
 func (m *Mesh) Check() error {
 	if !m.Kind.valid() {
 		return fmt.Errorf("mesh: element kind %d is neither Quad4 nor Quad8", int(m.Kind))
@@ -126,8 +129,36 @@ func (m *Mesh) Check() error {
 	var f faults
 	m.checkElements(&f)
 	m.checkSets(&f)
-	m.checkDuplicates(&f)
+	m.checkDuplicates(&f, m.nodeBodies(&f))
 	return f.err()
+}
+
+// noBody marks a node that no element uses.
+const noBody = math.MinInt
+
+// nodeBodies returns the body of each node, noBody for unused nodes, and
+// reports nodes that elements of two bodies share.
+func (m *Mesh) nodeBodies(f *faults) []int {
+	body := make([]int, len(m.Nodes))
+	for i := range body {
+		body[i] = noBody
+	}
+	reported := make(map[int]bool)
+	for e, el := range m.Elements {
+		for _, n := range el.Nodes {
+			if n < 0 || n >= len(body) {
+				continue // reported with the element
+			}
+			switch {
+			case body[n] == noBody:
+				body[n] = el.Body
+			case body[n] != el.Body && !reported[n]:
+				reported[n] = true
+				f.addf("node %d joins bodies %d and %d (%s); bodies share no nodes", n, body[n], el.Body, m.elementName(e))
+			}
+		}
+	}
+	return body
 }
 
 // faults collects the first maxReported messages and counts the rest.
@@ -219,11 +250,11 @@ func equalInts(a, b []int) bool {
 // maxPairs bounds the work on a mesh with masses of coincident nodes.
 const maxPairs = 10000
 
-// checkDuplicates finds nodes closer than 1e-9 of the mesh's extent. Nodes
-// are sorted by square cells of that size, so a close pair lies in the same
-// or in neighbouring cells, and one sweep over the sorted cells with a
-// second cursor one row ahead finds every pair once.
-func (m *Mesh) checkDuplicates(f *faults) {
+// checkDuplicates finds nodes of one body closer than 1e-9 of the mesh's
+// extent. Nodes are sorted by square cells of that size, so a close pair
+// lies in the same or in neighbouring cells, and one sweep over the sorted
+// cells with a second cursor one row ahead finds every pair once.
+func (m *Mesh) checkDuplicates(f *faults, body []int) {
 	lo := Point{math.Inf(1), math.Inf(1)}
 	hi := Point{math.Inf(-1), math.Inf(-1)}
 	live := 0
@@ -258,6 +289,9 @@ func (m *Mesh) checkDuplicates(f *faults) {
 	})
 	var pairs [][2]int
 	try := func(a, b int) {
+		if body[a] != body[b] && body[a] != noBody && body[b] != noBody {
+			return
+		}
 		if len(pairs) < maxPairs && dist(m.Nodes[a], m.Nodes[b]) <= tol {
 			pairs = append(pairs, [2]int{min(a, b), max(a, b)})
 		}

@@ -245,7 +245,7 @@ func TestDuplicateSearchMatchesBruteForce(t *testing.T) {
 		}
 	}
 	var f faults
-	m.checkDuplicates(&f)
+	m.checkDuplicates(&f, m.nodeBodies(&f))
 	if got := len(f.list) + f.more; got != want || want < 200 {
 		t.Errorf("found %d close pairs, brute force %d", got, want)
 	}
