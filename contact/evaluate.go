@@ -266,7 +266,8 @@ func axpy(y []float64, s float64, x []float64) {
 //
 // and k = W·(ε_T·∂s⊗∂s + t_T·∂²s) when sticking, or
 // k = W·(−μ·σ·ε_N·∂s⊗∂g + t_T·∂²s) when sliding in direction σ, which is
-// not symmetric. FrozenGeometry leaves out the terms with ∂²g and ∂²s.
+// not symmetric (NoSlidingStiffness leaves the first term out). FrozenGeometry
+// leaves out the terms with ∂²g and ∂²s.
 func (p *Pair) accumulate(a *accumulator, i int, e *pointEval) {
 	gp := &p.points[i]
 	a.coefficients(a.cs, p.slave[gp.seg], gp.r, false)
@@ -317,9 +318,10 @@ func (p *Pair) addTangential(a *accumulator, w float64, e *pointEval) {
 	if a.k == nil {
 		return
 	}
-	if e.status == sticking {
+	switch {
+	case e.status == sticking:
 		outer(a.k, w*p.set.StickPenalty, a.gs, a.gs)
-	} else {
+	case !p.set.NoSlidingStiffness:
 		outer(a.k, -w*p.set.Friction*e.sign*p.set.Penalty, a.gs, a.gg)
 	}
 	if p.set.FrozenGeometry {

@@ -193,3 +193,43 @@ func TestFrozenGeometry(t *testing.T) {
 		})
 	}
 }
+
+// TestNoSlidingStiffness: leaving out the sliding coupling keeps the
+// forces, changes nothing for frictionless or sticking points, and with
+// FrozenGeometry gives a symmetric positive semi-definite tangent even
+// while points slide (dense symmetric eigendecomposition).
+func TestNoSlidingStiffness(t *testing.T) {
+	for _, c := range fdCases() {
+		t.Run(c.name, func(t *testing.T) {
+			p, cur := c.configure(t, c.set)
+			plain := c.set
+			plain.NoSlidingStiffness, plain.FrozenGeometry = true, true
+			q, _ := c.configure(t, plain)
+			frozen := c.set
+			frozen.FrozenGeometry = true
+			r, _ := c.configure(t, frozen)
+			full, ns, fz := assemble(t, p, cur, true), assemble(t, q, cur, true), assemble(t, r, cur, true)
+			n := len(full.f)
+			for i := range full.f {
+				if full.f[i] != ns.f[i] {
+					t.Fatalf("force %d differs: %g and %g", i, full.f[i], ns.f[i])
+				}
+			}
+			if c.want != sliding {
+				for i := range fz.k {
+					if fz.k[i] != ns.k[i] {
+						t.Fatalf("tangent entry %d changed without sliding: %g and %g", i, fz.k[i], ns.k[i])
+					}
+				}
+			}
+			var eig mat.EigenSym
+			if !eig.Factorize(mat.NewSymDense(n, ns.k), false) {
+				t.Fatal("eigendecomposition failed")
+			}
+			vals := eig.Values(nil)
+			if lo, hi := vals[0], vals[n-1]; lo < -1e-12*hi {
+				t.Errorf("smallest eigenvalue %g of largest %g: not positive semi-definite", lo, hi)
+			}
+		})
+	}
+}

@@ -34,6 +34,14 @@ type Settings struct {
 	// equilibrium reached is the same.
 	SymmetricTangent bool
 
+	// NoSlidingStiffness leaves the friction coupling −μ·σ·ε_N·∂s⊗∂g of
+	// sliding points out of the tangent. Its symmetric part is indefinite,
+	// so with it a symmetric tangent can stop a Cholesky factorization;
+	// without it, and with FrozenGeometry, the tangent stays positive
+	// semi-definite. The forces are untouched: the equilibrium is the same,
+	// reached with linear convergence while points slide.
+	NoSlidingStiffness bool
+
 	// FrozenGeometry leaves the geometric terms out of the tangent: those
 	// from the change of the normal, of the tangent and of the projection
 	// point, which scale with the pressure (−p_N·∂²g) and the shear

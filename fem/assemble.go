@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"sort"
 
+	"flangeseg/material"
+
 	"flangeseg/fem/sparse"
 )
 
@@ -87,12 +89,18 @@ func (m *Model) equationGroups(maps []elementMap) [][]int {
 
 // assembler holds what repeated assemblies on one numbering share.
 type assembler struct {
-	m     *Model
-	maps  []elementMap
-	eqIdx [][]int // per element, equation of each independent dof (−1 if none)
-	s     *scratch
-	kt    []float64 // Tᵀ·ke·T
-	tmp   []float64
+	// linear caches the stiffness of elements whose response is linear
+	// (elastic law, small strain, standard formulation): their tangent
+	// never changes, so a Newton iteration only multiplies it out. stamp
+	// is the model's stamp the cache was built for.
+	linear [][]float64
+	stamp  int
+	m      *Model
+	maps   []elementMap
+	eqIdx  [][]int // per element, equation of each independent dof (−1 if none)
+	s      *scratch
+	kt     []float64 // Tᵀ·ke·T
+	tmp    []float64
 }
 
 func newAssembler(m *Model) *assembler {
@@ -136,7 +144,12 @@ func (a *assembler) assemble(u, fint []float64, k *sparse.Matrix, pts [][]PointR
 		if pts != nil {
 			pe = pts[e]
 		}
-		if err := a.m.elementResponse(e, ue, fe, ke, pe, s); err != nil {
+		if c := a.cached(e, nd); c != nil && pe == nil && a.m.eigen[a.m.mesh.Elements[e].Region] == ([4]float64{}) {
+			mulVec(fe, c, ue)
+			if ke != nil {
+				copy(ke, c)
+			}
+		} else if err := a.m.elementResponse(e, ue, fe, ke, pe, s); err != nil {
 			return err
 		}
 		for i, d := range em.dofs {
@@ -184,4 +197,53 @@ func (a *assembler) transform(em *elementMap, ke []float64) []float64 {
 		}
 	}
 	return kt
+}
+
+// cacheLimit bounds the memory of cached element stiffnesses (values).
+const cacheLimit = 1 << 26
+
+// cached returns the stored stiffness of a linear element, computing it
+// on first use; nil for an element whose response is not linear.
+func (a *assembler) cached(e, nd int) []float64 {
+	m := a.m
+	if a.linear == nil || a.stamp != m.stamp {
+		if len(m.mesh.Elements)*nd*nd > cacheLimit {
+			return nil
+		}
+		a.linear, a.stamp = make([][]float64, len(m.mesh.Elements)), m.stamp
+	}
+	if c := a.linear[e]; c != nil {
+		return c
+	}
+	if _, ok := m.kin.(SmallStrain); !ok || m.opt.Formulation != Standard {
+		return nil
+	}
+	if _, ok := m.laws[m.mesh.Elements[e].Region].(material.Elastic); !ok {
+		return nil
+	}
+	ue := make([]float64, nd)
+	fe := make([]float64, nd)
+	ke := make([]float64, nd*nd)
+	eig := m.eigen[m.mesh.Elements[e].Region]
+	m.eigen[m.mesh.Elements[e].Region] = [4]float64{}
+	err := m.elementResponse(e, ue, fe, ke, nil, newScratch())
+	m.eigen[m.mesh.Elements[e].Region] = eig
+	if err != nil {
+		return nil
+	}
+	a.linear[e] = ke
+	return ke
+}
+
+// mulVec sets dst = k·x for a square row-major k.
+func mulVec(dst, k, x []float64) {
+	n := len(x)
+	for r := range dst {
+		v := 0.0
+		row := k[r*n : (r+1)*n]
+		for c, xc := range x {
+			v += row[c] * xc
+		}
+		dst[r] = v
+	}
 }

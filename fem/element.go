@@ -253,5 +253,6 @@ func (m *Model) SetFoundation(region string, kx, kz float64) error {
 		return fmt.Errorf("fem: region %q: foundations need the standard formulation", region)
 	}
 	m.foundation[r] = [2]float64{kx, kz}
+	m.stamp++
 	return nil
 }

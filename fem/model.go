@@ -73,6 +73,7 @@ type Model struct {
 	edges      []edgeLoad
 	edgeSet    []string // rigid-edge names, for messages
 	eq         []int    // dof → equation, −1 if fixed or dependent; nil until numbered
+	stamp      int      // changes whenever element responses may change (foundations)
 	nEq        int
 }
 
@@ -230,6 +231,34 @@ func (m *Model) AddForce(d Dof, f float64) error {
 		return err
 	}
 	m.force[d] += f
+	return nil
+}
+
+// Tie makes dof d follow dof master (u_d = u_master): a lateral tie of a
+// bolt that friction centres, for example. d must be free and master must
+// not be tied itself.
+func (m *Model) Tie(d, master Dof) error {
+	if err := m.checkDof(d); err != nil {
+		return err
+	}
+	if err := m.checkDof(master); err != nil {
+		return err
+	}
+	if d == master || m.fixed[d] || m.depends[d] != nil {
+		return fmt.Errorf("fem: %s cannot be tied: it is prescribed or tied already", m.DescribeDof(d))
+	}
+	if m.depends[master] != nil {
+		return fmt.Errorf("fem: %s cannot lead a tie: it is tied itself", m.DescribeDof(master))
+	}
+	for _, ts := range m.depends {
+		for _, t := range ts {
+			if t.master == d {
+				return fmt.Errorf("fem: %s cannot be tied: other dofs follow it", m.DescribeDof(d))
+			}
+		}
+	}
+	m.depends[d] = []term{{master, 1}}
+	m.eq = nil
 	return nil
 }
 

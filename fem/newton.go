@@ -29,6 +29,11 @@ type NewtonOptions struct {
 	MaxIterations int     // per equilibrium solve (default 30)
 	Tolerance     float64 // ‖residual‖ ≤ Tolerance·‖internal force‖ (default 1e-8)
 	MaxAugments   int     // augmented-Lagrangian updates per solve (default 25)
+	// ForceScale is a force (N) that the residual is also measured
+	// against, so that a state with almost no load (rounding-level contact
+	// forces) counts as converged: ‖residual‖ ≤ Tolerance·max(‖internal
+	// force‖, ‖load‖, ForceScale). Zero means none.
+	ForceScale float64
 	// Log, if set, receives one line per iteration (the --verbose log).
 	Log func(line string)
 }
@@ -81,6 +86,11 @@ type Solver struct {
 	cur     []contact.Point
 	Timing  Timing
 	lastRes float64
+	// before, lastStep: the state before the last ramp increment and that
+	// increment's size, for the predictor; pendingStep the size of the
+	// increment being solved.
+	before                []float64
+	lastStep, pendingStep float64
 }
 
 // NewSolver numbers the model and builds the first sparsity pattern.
@@ -149,6 +159,7 @@ func groupKey(g []int) string {
 // ensurePattern adds the contact couplings at the current positions to the
 // pattern, rebuilding it (and the symbolic analysis) when one is new.
 func (s *Solver) ensurePattern() error {
+	s.updateCurrent()
 	fresh := false
 	for _, p := range s.pairs {
 		for _, dofs := range p.Couplings(s.cur) {
@@ -298,7 +309,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			return it, err
 		}
 		r := s.m.freeResidual(fext, s.fint)
-		ref := math.Max(norm(s.fint), norm(fext))
+		ref := math.Max(math.Max(norm(s.fint), norm(fext)), s.opt.ForceScale)
 		rel := 0.0
 		if ref > 0 {
 			rel = norm(r) / ref
@@ -328,8 +339,33 @@ func (s *Solver) newton(fext []float64) (int, error) {
 	}
 }
 
+// predict starts the next increment of a ramp from the last converged
+// state plus the last increment's change, scaled to the new step: a
+// linear extrapolation that spares most of the first iteration's
+// imbalance.
+func (s *Solver) predict(step float64) {
+	s.pendingStep = step
+	if s.lastStep <= 0 || s.before == nil {
+		return
+	}
+	r := step / s.lastStep
+	for d, q := range s.m.eq {
+		if q >= 0 {
+			s.u[d] = s.done[d] + r*(s.done[d]-s.before[d])
+		}
+	}
+	s.m.expand(s.u)
+}
+
 // Commit accepts the current state as converged.
 func (s *Solver) Commit() {
+	if s.pendingStep > 0 {
+		if s.before == nil {
+			s.before = make([]float64, len(s.done))
+		}
+		copy(s.before, s.done)
+		s.lastStep, s.pendingStep = s.pendingStep, 0
+	}
 	copy(s.done, s.u)
 	for _, p := range s.pairs {
 		p.Commit()

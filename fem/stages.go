@@ -43,6 +43,7 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 		if err := s.m.SetValue(d, start+next*span); err != nil {
 			return err
 		}
+		s.predict(next - at)
 		its, err := s.Equilibrium()
 		if err != nil {
 			s.Revert()
@@ -66,10 +67,12 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 		if err != nil || stop {
 			return err
 		}
-		if cuts > 0 {
+		// A step that went through at once may grow back towards the
+		// nominal one; after a cut, one success at the cut size first.
+		if cuts == 0 {
 			step = math.Min(1.0/float64(opt.Increments), 2*step)
-			cuts = 0
 		}
+		cuts = 0
 	}
 	return nil
 }
@@ -82,45 +85,74 @@ type PreloadResult struct {
 }
 
 // Preload finds the axial eigenstrain of region that makes force() equal
-// target within rel (relative), by secant steps on the eigenstrain; each
-// step is an equilibrium solve. force measures the bolt force in the
-// current state. The state is committed at the end.
+// target within rel (relative). A small probe gives the slope; the
+// eigenstrain is then ramped to its estimate in steps (halved when one
+// fails), and secant steps correct the rest. force measures the bolt force
+// in the current state; every converged state is committed.
 func (s *Solver) Preload(region string, target, rel float64, force func() (float64, error)) (PreloadResult, error) {
 	if !(target > 0) {
 		return PreloadResult{}, fmt.Errorf("fem: preload target %g N: must be positive", target)
 	}
+	res := PreloadResult{Eigenstrain: s.m.Eigenstrain(region)[1]}
 	solveAt := func(e float64) (float64, error) {
 		if err := s.m.SetEigenstrain(region, eigenZZ(e)); err != nil {
 			return 0, err
 		}
+		res.Iterations++
 		if _, err := s.Equilibrium(); err != nil {
 			s.Revert()
+			if err := s.m.SetEigenstrain(region, eigenZZ(res.Eigenstrain)); err != nil {
+				return 0, err
+			}
 			return 0, err
 		}
-		return force()
+		s.Commit()
+		f, err := force()
+		res.Eigenstrain, res.Force = e, f
+		return f, err
 	}
-	e0, f0 := 0.0, 0.0
-	e1 := -1e-3
-	f1, err := solveAt(e1)
+	// rampTo moves the eigenstrain to e in steps of at most step, halving
+	// a step that fails.
+	rampTo := func(e, step float64) error {
+		for math.Abs(e-res.Eigenstrain) > 1e-15 {
+			d := math.Copysign(math.Min(step, math.Abs(e-res.Eigenstrain)), e-res.Eigenstrain)
+			if _, err := solveAt(res.Eigenstrain + d); err != nil {
+				if !IsNotConverged(err) || step < 1e-9 {
+					return err
+				}
+				step /= 2
+			}
+		}
+		return nil
+	}
+	e0, f0 := res.Eigenstrain, 0.0
+	if e0 != 0 {
+		var err error
+		if f0, err = force(); err != nil {
+			return res, err
+		}
+	}
+	probe := e0 - 1e-5
+	f1, err := solveAt(probe)
 	if err != nil {
-		return PreloadResult{}, err
+		return res, err
 	}
-	for it := 1; it <= 30; it++ {
+	for it := 0; it < 30; it++ {
 		if math.Abs(f1-target) <= rel*target {
-			s.Commit()
-			return PreloadResult{Eigenstrain: e1, Force: f1, Iterations: it}, nil
+			return res, nil
 		}
 		if f1 == f0 {
-			return PreloadResult{}, fmt.Errorf("fem: preload: bolt force does not respond to the shortening of %q", region)
+			return res, fmt.Errorf("fem: preload: bolt force does not respond to the shortening of %q", region)
 		}
-		e2 := e1 + (target-f1)*(e1-e0)/(f1-f0)
+		e1 := res.Eigenstrain
+		next := e1 + (target-f1)*(e1-e0)/(f1-f0)
 		e0, f0 = e1, f1
-		e1 = e2
-		if f1, err = solveAt(e1); err != nil {
-			return PreloadResult{}, err
+		if err := rampTo(next, math.Abs(next-e1)/5); err != nil {
+			return res, err
 		}
+		f1 = res.Force
 	}
-	return PreloadResult{}, fmt.Errorf("fem: preload: %g N not reached within 30 steps (last %g N)", target, f1)
+	return res, fmt.Errorf("fem: preload: %g N not reached within 30 secant steps (last %g N)", target, f1)
 }
 
 // Shorten locks a prescribed shortening (mm) over a slice of length

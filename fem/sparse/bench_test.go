@@ -1,6 +1,7 @@
 package sparse
 
 import (
+	"fmt"
 	"math/rand/v2"
 	"sync"
 	"testing"
@@ -44,12 +45,17 @@ func benchAnalyze(b *testing.B, name string, ord Ordering) {
 }
 
 func benchFactorize(b *testing.B, name string, ord Ordering) {
+	benchFactorizeWorkers(b, name, ord, 0)
+}
+
+func benchFactorizeWorkers(b *testing.B, name string, ord Ordering, workers int) {
 	m := benchMatrix(b, name)
 	s, err := Analyze(m, ord)
 	if err != nil {
 		b.Fatal(err)
 	}
 	var c Cholesky
+	c.SetWorkers(workers)
 	if err := c.Factorize(s, m); err != nil { // allocate outside the timing
 		b.Fatal(err)
 	}
@@ -114,4 +120,13 @@ func BenchmarkSolve20k(b *testing.B) {
 }
 func BenchmarkSolve200k(b *testing.B) {
 	byOrdering(b, func(b *testing.B, o Ordering) { benchSolve(b, "200k", o) })
+}
+
+// BenchmarkFactorizeWorkers200k shows the parallel speed-up (ND ordering).
+func BenchmarkFactorizeWorkers200k(b *testing.B) {
+	for _, w := range []int{1, 2} {
+		b.Run(fmt.Sprintf("workers=%d", w), func(b *testing.B) {
+			benchFactorizeWorkers(b, "200k", OrderNestedDissection, w)
+		})
+	}
 }

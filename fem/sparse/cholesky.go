@@ -564,7 +564,8 @@ func (c *Cholesky) solve(dst, b, y []float64) {
 	}
 }
 
-// LogDet returns the natural logarithm of the determinant of A.
+// LogDet returns the natural logarithm of the determinant of A, or NaN
+// without a valid factorization.
 func (c *Cholesky) LogDet() float64 {
 	if !c.valid {
 		return math.NaN()

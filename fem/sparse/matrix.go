@@ -140,8 +140,8 @@ const sortSmall = 64
 // AddDense adds the dense symmetric block k, row-major len(idx)×len(idx), at
 // rows and columns idx. Negative entries of idx are skipped. Only entries with
 // idx[r] ≥ idx[c] are read, so either a full block or its lower triangle in
-// idx order may be passed. It returns an error, without a partial update
-// being undone, if a target entry is not in the pattern. It does not
+// idx order may be passed. If a target entry is not in the pattern it
+// returns an error; the entries added before it stay added. It does not
 // allocate.
 func (m *Matrix) AddDense(idx []int, k []float64) error {
 	ne := len(idx)

@@ -76,7 +76,9 @@ type Symbolic struct {
 }
 
 // Analyze computes the symbolic factorization of m's pattern with the given
-// fill-reducing ordering. The values of m are not used.
+// fill-reducing ordering. The values of m are not used. Nested dissection
+// orders the halves of large parts on two goroutines when GOMAXPROCS > 1;
+// the result does not depend on it.
 func Analyze(m *Matrix, ord Ordering) (*Symbolic, error) {
 	if m == nil {
 		return nil, errors.New("sparse: Analyze: nil matrix")

@@ -1,0 +1,375 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"strings"
+
+	"flangeseg/contact"
+	"flangeseg/fem"
+	"flangeseg/material"
+	"flangeseg/mesh"
+	"flangeseg/post/handcalc"
+)
+
+// segment is one bolt segment turned into a finite-element model.
+type segment struct {
+	spec    *Spec
+	der     Derived
+	mesh    *mesh.Mesh
+	model   *fem.Model
+	edge    fem.RigidEdge
+	faces   *contact.Pair // upper flange face on the lower one
+	head    *contact.Pair // head washer on the upper flange
+	nut     *contact.Pair // nut washer on the lower flange
+	zones   []zoneRange   // contact zones of the face (or the whole face)
+	cut     boltCut       // the bolt section at the contact plane
+	under   boltCut       // the bolt section under the head
+	slice   float64       // length of the preload slice, mm
+	hand    handcalc.Results
+	shellE  float64
+	penalty float64
+	tie     fem.Dof // the bolt's lateral tie at the contact plane
+}
+
+// nearestOnSet is the node of a node set nearest to x (−1 if none).
+func nearestOnSet(m *mesh.Mesh, set string, x float64) int {
+	best, at := math.Inf(1), -1
+	for _, n := range m.NodeSets[set] {
+		if d := math.Abs(m.Nodes[n].X - x); d < best {
+			best, at = d, n
+		}
+	}
+	return at
+}
+
+type zoneRange struct {
+	name   string
+	x0, x1 float64
+}
+
+type boltCut struct {
+	elems, nodes []int
+}
+
+// boltMaterial is the material the bolt regions take.
+func (s *Spec) boltMaterial() string {
+	if s.Bolt.Material != "" {
+		return s.Bolt.Material
+	}
+	return s.Bolt.Grade
+}
+
+// geometry maps the model file to the mesher's description.
+func (s *Spec) geometry(d Derived) mesh.FlangeSegment {
+	kind := mesh.Quad8
+	if s.Mesh.Element == "quad4" {
+		kind = mesh.Quad4
+	}
+	var lines []float64
+	for _, z := range s.Contact.Zones {
+		lines = append(lines, z.From, z.To)
+	}
+	face0, face1 := -s.Flange.A, s.Flange.B+s.Shell.Thickness/2
+	var inside []float64
+	for _, x := range lines {
+		if x > face0+1e-9 && x < face1-1e-9 && !slices.Contains(inside, x) {
+			inside = append(inside, x)
+		}
+	}
+	slices.Sort(inside)
+	return mesh.FlangeSegment{
+		ShellThickness:  s.Shell.Thickness,
+		ShellLength:     s.Shell.Length,
+		FlangeThickness: s.Flange.Thickness,
+		A:               s.Flange.A,
+		B:               s.Flange.B,
+		SegmentWidth:    d.SegmentWidth,
+		NeckRadius:      s.Flange.NeckRadius,
+		BoltDiameter:    d.D,
+		HoleDiameter:    s.Bolt.Hole,
+		WasherOuter:     s.Bolt.WasherOuter,
+		WasherThickness: s.Bolt.WasherThickness,
+		HeadHeight:      s.Bolt.HeadHeight,
+		NutHeight:       s.Bolt.NutHeight,
+		StressArea:      d.StressArea,
+		FullThread:      s.Bolt.Thread == "full",
+		ThreadInClamp:   d.ThreadInClamp,
+		FaceLines:       inside,
+		ElementSize:     s.Mesh.Size,
+		Refine:          s.Mesh.Refine,
+		Kind:            kind,
+	}
+}
+
+// handJoint is the joint as the hand methods see it.
+func (s *Spec) handJoint(d Derived) handcalc.Joint {
+	return handcalc.Joint{
+		T: s.Shell.Thickness, Tf: s.Flange.Thickness, A: s.Flange.A, B: s.Flange.B, C: d.SegmentWidth,
+		D: d.D, Pitch: d.Pitch, Grade: s.Bolt.Grade,
+		Hole: s.Bolt.Hole, Washer: s.Bolt.WasherOuter, WasherThickness: s.Bolt.WasherThickness,
+		FreeThread: d.ThreadInClamp, ShellFy: d.ShellYield, FlangeFy: d.FlangeYield,
+		Preload: d.DesignPreload, E: steelE,
+	}
+}
+
+// buildSegment meshes the joint and sets up supports, ring springs,
+// contact pairs and the loaded edge.
+func buildSegment(s *Spec, d Derived) (*segment, error) {
+	g := &segment{spec: s, der: d}
+	msh, err := mesh.BuildFlangeSegment(s.geometry(d), mesh.FlangeMaterials{
+		Shell: s.Shell.Material, Flange: s.Flange.Material, Bolt: s.boltMaterial(),
+	})
+	if err != nil {
+		return nil, fmt.Errorf("mesh: %w", err)
+	}
+	if err := msh.Check(); err != nil {
+		return nil, fmt.Errorf("mesh: %w", err)
+	}
+	g.mesh = msh
+	laws := map[string]material.Law{}
+	for _, r := range msh.Regions {
+		info, err := s.material(r.Material, s.Flange.Thickness)
+		if err != nil {
+			return nil, fmt.Errorf("region %s: %w", r.Name, err)
+		}
+		laws[r.Material] = material.Elastic{E: info.E, Nu: info.Nu}
+	}
+	shell, _ := s.material(s.Shell.Material, s.Shell.Thickness)
+	g.shellE = shell.E
+	cond := material.PlaneStress
+	if s.Analysis.Plane == "strain" {
+		cond = material.PlaneStrain
+	}
+	m, err := fem.NewModel(msh, laws, fem.Options{Condition: cond})
+	if err != nil {
+		return nil, err
+	}
+	g.model = m
+	if err := g.supports(); err != nil {
+		return nil, err
+	}
+	if err := g.contacts(); err != nil {
+		return nil, err
+	}
+	g.cut, err = g.section("bolt_interface", func(z, zc float64) bool { return z > zc })
+	if err != nil {
+		return nil, err
+	}
+	g.under, err = g.section("bolt_under_head", func(z, zc float64) bool { return z > zc })
+	if err != nil {
+		return nil, err
+	}
+	g.slice = g.regionHeight("bolt_preload")
+	if !(g.slice > 0) {
+		return nil, fmt.Errorf("mesh: the preload slice of the bolt is missing")
+	}
+	if g.hand, err = handcalc.Analyze(s.handJoint(d), handcalc.DefaultParams()); err != nil {
+		return nil, fmt.Errorf("hand methods: %w", err)
+	}
+	return g, nil
+}
+
+func (g *segment) supports() error {
+	m, s := g.model, g.spec
+	for _, dir := range []fem.Direction{fem.X, fem.Z} {
+		if err := m.FixSet("lower_end", dir, 0); err != nil {
+			return err
+		}
+	}
+	top := s.Flange.Thickness + s.Shell.Length
+	edge, err := m.AddRigidEdge("upper_end", mesh.Point{X: s.Flange.B, Z: top},
+		fem.RigidEdgeOptions{FixLateral: true, FixRotation: s.Load.EndRotation == "fixed"})
+	if err != nil {
+		return err
+	}
+	if err := m.Fix(edge.Axial, 0); err != nil {
+		return err
+	}
+	g.edge = edge
+	if s.Analysis.RingSprings {
+		r := s.Tower.Diameter / 2
+		for _, region := range []string{"upper_shell", "lower_shell"} {
+			// E·t/R² per unit wall area, spread over the wall thickness.
+			if err := m.SetFoundation(region, g.shellE/(r*r), 0); err != nil {
+				return err
+			}
+		}
+	}
+	// Friction at head and nut centres the bolt laterally; while washers
+	// slide that holds it no longer, so its axis at the contact plane
+	// follows the lower flange in x. The force through the tie is the
+	// lateral shear the bolt would otherwise take from friction.
+	axis := nearestOnSet(g.mesh, "bolt_interface", 0)
+	flange := nearestOnSet(g.mesh, "lower_face", 0)
+	if axis < 0 || flange < 0 {
+		return fmt.Errorf("mesh: bolt axis or flange face node at x = 0 missing")
+	}
+	if err := m.Tie(m.NodeDof(axis, fem.X), m.NodeDof(flange, fem.X)); err != nil {
+		return err
+	}
+	g.tie = m.NodeDof(axis, fem.X)
+	// The bolt is held by contact alone; a very weak support keeps its
+	// stiffness regular while a face is open or frictionless (about
+	// 1e-7·E/d² per unit volume: a few N per mm of rigid bolt motion).
+	weak := 1e-7 * g.shellE / (g.der.D * g.der.D)
+	for _, r := range g.mesh.Regions {
+		if strings.HasPrefix(r.Name, "bolt_") || r.Name == "nut" || strings.HasSuffix(r.Name, "_washer") {
+			if err := m.SetFoundation(r.Name, weak, weak); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+// faceGap is the initial gap between the flange faces at x: recesses
+// outside the defined contact zones, the taper and a parallel gap.
+func (g *segment) faceGap(x float64) float64 {
+	c := g.spec.Contact
+	gap := c.ParallelGap
+	if len(c.Zones) > 0 {
+		in := false
+		for _, z := range c.Zones {
+			in = in || (x >= z.From-1e-9 && x <= z.To+1e-9)
+		}
+		if !in {
+			depth := c.Recess
+			if c.RecessOn == "both" {
+				depth *= 2
+			}
+			gap += depth
+		}
+	}
+	tilt := 2 * math.Tan(math.Abs(c.Taper)*math.Pi/180)
+	switch {
+	case c.Taper > 0:
+		gap += tilt * (g.spec.Flange.B + g.spec.Shell.Thickness/2 - x)
+	case c.Taper < 0:
+		gap += tilt * (x + g.spec.Flange.A)
+	}
+	return gap
+}
+
+func (g *segment) contacts() error {
+	s, d := g.spec, g.der
+	ref := make([]contact.Point, len(g.mesh.Nodes))
+	for i, p := range g.mesh.Nodes {
+		ref[i] = contact.Point{X: p.X, Z: p.Z}
+	}
+	// A penalty well above the stiffness of the finest elements; the
+	// augmented-Lagrangian updates then bring the penetration below 1 µm.
+	g.penalty = 10 * g.shellE / (s.Mesh.Size * s.Mesh.Refine)
+	set := contact.Settings{Penalty: g.penalty, Friction: s.Contact.Friction, Tolerance: 1e-3,
+		SymmetricTangent: true, FrozenGeometry: true, NoSlidingStiffness: true}
+	stripWidth := func(x, _ float64) float64 {
+		if math.Abs(x) < s.Bolt.Hole/2 {
+			return d.HoleBandStrip
+		}
+		return d.FlangeStrip
+	}
+	bearing := func(x, _ float64) float64 { return d.BearingStrip }
+	var err error
+	if g.faces, err = g.pair("flange faces", "upper_face", "lower_face", ref, set,
+		func(x, _ float64) float64 { return g.faceGap(x) }, stripWidth); err != nil {
+		return err
+	}
+	if g.head, err = g.pair("head washer", "head_bearing", "upper_top", ref, set, nil, bearing); err != nil {
+		return err
+	}
+	if g.nut, err = g.pair("nut washer", "nut_bearing", "lower_bottom", ref, set, nil, bearing); err != nil {
+		return err
+	}
+	face1 := s.Flange.B + s.Shell.Thickness/2
+	if len(s.Contact.Zones) == 0 {
+		g.zones = []zoneRange{{"face", -s.Flange.A - 1, face1 + 1}}
+	}
+	for i, z := range s.Contact.Zones {
+		g.zones = append(g.zones, zoneRange{fmt.Sprintf("zone%d", i+1), z.From - 1e-9, z.To + 1e-9})
+	}
+	return nil
+}
+
+func (g *segment) pair(name, slave, master string, ref []contact.Point, set contact.Settings,
+	gap0, weight func(x, z float64) float64) (*contact.Pair, error) {
+	surf := func(edgeSet string) (contact.Surface, error) {
+		edges, ok := g.mesh.EdgeSets[edgeSet]
+		if !ok || len(edges) == 0 {
+			return contact.Surface{}, fmt.Errorf("mesh: surface %q is missing", edgeSet)
+		}
+		var sf contact.Surface
+		for _, e := range edges {
+			sf.Segments = append(sf.Segments, e.Nodes)
+		}
+		return sf, nil
+	}
+	sl, err := surf(slave)
+	if err != nil {
+		return nil, err
+	}
+	ms, err := surf(master)
+	if err != nil {
+		return nil, err
+	}
+	p, err := contact.NewPair(name, sl, ms, ref, set, gap0, weight)
+	if err != nil {
+		return nil, fmt.Errorf("contact %s: %w", name, err)
+	}
+	return p, nil
+}
+
+// section collects a node line across the bolt and the bolt elements on
+// one side of it that touch the line.
+func (g *segment) section(set string, side func(z, zc float64) bool) (boltCut, error) {
+	nodes, ok := g.mesh.NodeSets[set]
+	if !ok || len(nodes) == 0 {
+		return boltCut{}, fmt.Errorf("mesh: node set %q is missing", set)
+	}
+	on := map[int]bool{}
+	zc := g.mesh.Nodes[nodes[0]].Z
+	for _, n := range nodes {
+		on[n] = true
+	}
+	var elems []int
+	for e, el := range g.mesh.Elements {
+		name := g.mesh.Regions[el.Region].Name
+		if !strings.HasPrefix(name, "bolt_") {
+			continue
+		}
+		touches, z := false, 0.0
+		for _, n := range el.Nodes {
+			touches = touches || on[n]
+			z += g.mesh.Nodes[n].Z / float64(len(el.Nodes))
+		}
+		if touches && side(z, zc) {
+			elems = append(elems, e)
+		}
+	}
+	if len(elems) == 0 {
+		return boltCut{}, fmt.Errorf("mesh: no bolt elements above the node line %q", set)
+	}
+	return boltCut{elems: elems, nodes: nodes}, nil
+}
+
+func (g *segment) regionHeight(name string) float64 {
+	r, ok := g.mesh.RegionIndex(name)
+	if !ok {
+		return 0
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, el := range g.mesh.Elements {
+		if el.Region != r {
+			continue
+		}
+		for _, n := range el.Nodes {
+			lo = math.Min(lo, g.mesh.Nodes[n].Z)
+			hi = math.Max(hi, g.mesh.Nodes[n].Z)
+		}
+	}
+	return hi - lo
+}
+
+func (g *segment) pairs() []fem.ContactPair {
+	return []fem.ContactPair{g.faces, g.head, g.nut}
+}

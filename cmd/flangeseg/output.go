@@ -1,0 +1,236 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+
+	"flangeseg/contact"
+	"flangeseg/post"
+	"flangeseg/post/handcalc"
+)
+
+// historyTable lays out history.csv (column names of DESIGN.md).
+func historyTable(g *segment, res *analysis) (post.Table, error) {
+	cols := []string{"increment", "stage", "Z_kN", "u_mm", "bolt_force_kN", "bolt_moment_interface_kNm",
+		"bolt_moment_head_kNm", "bolt_stress_axial_MPa", "bolt_stress_bending_MPa", "gap_edge_mm"}
+	for _, z := range g.zones {
+		cols = append(cols, "contact_force_"+z.name+"_kN")
+	}
+	cols = append(cols, "max_plastic_strain", "max_damage", "iterations")
+	t := post.Table{Columns: cols}
+	// Bending stress on the stress-area section: W = π·d_s³/32 with
+	// d_s = √(4·A_s/π).
+	ds := math.Sqrt(4 * g.der.StressArea / math.Pi)
+	w := math.Pi * ds * ds * ds / 32
+	for _, r := range res.rows {
+		stage := 1.0
+		if r.stage == "preload" {
+			stage = 0
+		}
+		row := []float64{float64(r.increment), stage, r.z / 1e3, r.u, r.fs / 1e3, r.mInterface / 1e6,
+			r.mHead / 1e6, r.fs / g.der.StressArea, math.Abs(r.mInterface) / w, r.gapEdge}
+		for _, f := range r.zoneForce {
+			row = append(row, f/1e3)
+		}
+		row = append(row, 0, 0, float64(r.iterations))
+		if err := t.Append(row...); err != nil {
+			return t, err
+		}
+	}
+	return t, nil
+}
+
+// summary is summary.json.
+type summary struct {
+	Title     string           `json:"title"`
+	Model     string           `json:"model"`
+	Caution   string           `json:"caution"`
+	Converged bool             `json:"converged"`
+	Ending    string           `json:"ending"`
+	Failure   string           `json:"failure,omitempty"`
+	Joint     jointFigures     `json:"joint"`
+	Mesh      meshSummary      `json:"mesh"`
+	Solver    solverSummary    `json:"solver"`
+	Hand      handcalc.Results `json:"hand_methods"`
+}
+
+type meshSummary struct {
+	Nodes            int     `json:"nodes"`
+	Elements         int     `json:"elements"`
+	Equations        int     `json:"equations"`
+	Element          string  `json:"element"`
+	MinJacobianRatio float64 `json:"min_jacobian_ratio"`
+	MaxAspectRatio   float64 `json:"max_aspect_ratio"`
+}
+
+type solverSummary struct {
+	Increments         int     `json:"increments"`
+	NewtonIterations   int     `json:"newton_iterations"`
+	Factorizations     int     `json:"factorizations"`
+	AssemblySeconds    float64 `json:"assembly_s"`
+	ContactSeconds     float64 `json:"contact_s"`
+	FactorSeconds      float64 `json:"factorization_s"`
+	AnalysisSeconds    float64 `json:"ordering_s"`
+	PenaltyMPaPerMM    float64 `json:"contact_penalty_MPa_per_mm"`
+	PreloadSolves      int     `json:"preload_solves"`
+	FieldStatesWritten int     `json:"field_states"`
+}
+
+func makeSummary(path string, g *segment, res *analysis) summary {
+	q := g.mesh.Quality()
+	s := summary{
+		Title: g.spec.Title, Model: filepath.Base(path), Caution: caution,
+		Converged: res.failure == nil, Ending: res.ending, Joint: figures(g, res), Hand: g.hand,
+		Mesh: meshSummary{Nodes: len(g.mesh.Nodes), Elements: len(g.mesh.Elements), Equations: res.equation,
+			Element: g.spec.Mesh.Element, MinJacobianRatio: q.MinJacobianRatio, MaxAspectRatio: q.MaxAspectRatio},
+		Solver: solverSummary{Increments: len(res.rows) - 1, NewtonIterations: res.timing.Iterations,
+			Factorizations: res.timing.Factorizations, AssemblySeconds: res.timing.Assembly.Seconds(),
+			ContactSeconds: res.timing.Contact.Seconds(), FactorSeconds: res.timing.Factorization.Seconds(),
+			AnalysisSeconds: res.timing.Analysis.Seconds(), PenaltyMPaPerMM: g.penalty,
+			PreloadSolves: res.preload.Iterations, FieldStatesWritten: len(res.states)},
+	}
+	if res.failure != nil {
+		s.Failure = res.failure.Error()
+	}
+	return s
+}
+
+// writeResults writes every output file of a run into dir.
+func writeResults(dir, modelPath string, g *segment, res *analysis) (summary, error) {
+	sum := makeSummary(modelPath, g, res)
+	if err := os.MkdirAll(filepath.Join(dir, "fields"), 0o755); err != nil {
+		return sum, err
+	}
+	resolved, err := g.spec.resolvedTOML()
+	if err != nil {
+		return sum, err
+	}
+	if err := post.WriteFileAtomic(filepath.Join(dir, "model.resolved.toml"), func(w io.Writer) error {
+		_, err := w.Write(resolved)
+		return err
+	}); err != nil {
+		return sum, err
+	}
+	t, err := historyTable(g, res)
+	if err != nil {
+		return sum, err
+	}
+	if err := post.WriteCSV(filepath.Join(dir, "history.csv"), t); err != nil {
+		return sum, err
+	}
+	if err := post.WriteJSON(filepath.Join(dir, "summary.json"), sum); err != nil {
+		return sum, err
+	}
+	if err := writePlots(dir, g, res); err != nil {
+		return sum, err
+	}
+	return sum, writeFields(dir, res)
+}
+
+func column(rows []historyRow, q func(historyRow) float64) []float64 {
+	out := make([]float64, len(rows))
+	for i, r := range rows {
+		out[i] = q(r)
+	}
+	return out
+}
+
+func writePlots(dir string, g *segment, res *analysis) error {
+	rows := res.rows
+	if len(rows) < 2 {
+		return nil
+	}
+	z := column(rows, func(r historyRow) float64 { return r.z / 1e3 })
+	u := column(rows, func(r historyRow) float64 { return r.u })
+	fs := column(rows, func(r historyRow) float64 { return r.fs / 1e3 })
+	zh, diagram, tri := handCurves(g.hand, math.Max(rows[len(rows)-1].z, 0))
+	plots := map[string]post.Plot{
+		"Z_u": {Title: "Segment force against loaded-edge displacement", XLabel: "u [mm]", YLabel: "Z [kN]",
+			Series: []post.Series{{Name: "FE", X: u, Y: z}}},
+		"Fs_Z": {Title: "Bolt force function", XLabel: "Z [kN]", YLabel: "F_s [kN]",
+			Series: []post.Series{{Name: "FE", X: z, Y: fs},
+				{Name: "joint diagram (VDI 2230)", X: zh, Y: diagram, Dashed: true},
+				{Name: "trilinear (Schmidt/Neuhaus)", X: zh, Y: tri, Dashed: true}}},
+		"Ms_Z": {Title: "Bolt bending moment", XLabel: "Z [kN]", YLabel: "M_s [kN·m]",
+			Series: []post.Series{
+				{Name: "at the contact plane", X: z, Y: column(rows, func(r historyRow) float64 { return r.mInterface / 1e6 })},
+				{Name: "under the head", X: z, Y: column(rows, func(r historyRow) float64 { return r.mHead / 1e6 }), Dashed: true}}},
+		"gap_Z": {Title: "Opening at the shell-side corner", XLabel: "Z [kN]", YLabel: "gap [mm]",
+			Series: []post.Series{{Name: "x = b + t/2", X: z, Y: column(rows, func(r historyRow) float64 { return r.gapEdge })}}},
+	}
+	zones := post.Plot{Title: "Contact force per zone", XLabel: "Z [kN]", YLabel: "contact force [kN]"}
+	for i, zr := range g.zones {
+		zones.Series = append(zones.Series, post.Series{Name: zr.name,
+			X: z, Y: column(rows, func(r historyRow) float64 { return r.zoneForce[i] / 1e3 })})
+	}
+	plots["contact_force_Z"] = zones
+	plots["contact_pressure"] = pressurePlot(res)
+	for _, name := range []string{"Z_u", "Fs_Z", "Ms_Z", "gap_Z", "contact_force_Z", "contact_pressure"} {
+		if err := post.WritePlot(filepath.Join(dir, name), plots[name]); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// pressurePlot draws the face pressure at preload and at three load
+// levels (a quarter, half and all of the way).
+func pressurePlot(res *analysis) post.Plot {
+	p := post.Plot{Title: "Contact pressure along the flange face", XLabel: "x [mm]", YLabel: "p [MPa]"}
+	n := len(res.states)
+	picks := []int{0}
+	for _, f := range []float64{0.25, 0.5, 1} {
+		i := int(math.Round(f * float64(n-1)))
+		if i > picks[len(picks)-1] {
+			picks = append(picks, i)
+		}
+	}
+	for _, i := range picks {
+		st := res.states[i]
+		var x, pr []float64
+		for _, r := range st.contacts["faces"] {
+			if r.Paired {
+				x, pr = append(x, r.X), append(pr, r.Pressure)
+			}
+		}
+		p.Series = append(p.Series, post.Series{Name: fmt.Sprintf("%s, Z = %.0f kN", st.label, st.row.z/1e3), X: x, Y: pr})
+	}
+	return p
+}
+
+// writeFields writes one .vtu per kept state and the fields.pvd series.
+func writeFields(dir string, res *analysis) error {
+	var series []post.SeriesEntry
+	for i, st := range res.states {
+		point, cell, err := post.SolutionFields(st.solution)
+		if err != nil {
+			return err
+		}
+		point = append(point, contactFields(len(st.solution.Model().Mesh().Nodes), st.contacts)...)
+		name := fmt.Sprintf("state_%03d.vtu", i)
+		mesh := st.solution.Model().Mesh()
+		if err := post.WriteVTU(filepath.Join(dir, "fields", name), post.GridFromMesh(mesh), point, cell); err != nil {
+			return err
+		}
+		series = append(series, post.SeriesEntry{Time: float64(st.row.increment), File: filepath.Join("fields", name)})
+	}
+	return post.WritePVD(filepath.Join(dir, "fields.pvd"), series)
+}
+
+// contactFields carries contact pressure and gap to point data (zero away
+// from the contact surfaces; each surface's slave nodes carry its values).
+func contactFields(nodes int, pairs map[string][]contact.NodeResult) []post.Field {
+	pressure := make([]float64, nodes)
+	gap := make([]float64, nodes)
+	for _, name := range []string{"faces", "head", "nut"} {
+		for _, r := range pairs[name] {
+			if r.Paired { // an unpaired node has no gap (it faces nothing)
+				pressure[r.Node], gap[r.Node] = r.Pressure, r.Gap
+			}
+		}
+	}
+	return []post.Field{{Name: "contact_pressure", Components: 1, Values: pressure}, {Name: "gap", Components: 1, Values: gap}}
+}

@@ -1,0 +1,158 @@
+package main
+
+import (
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"github.com/schollz/progressbar/v3"
+	"golang.org/x/term"
+)
+
+func runRun(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("run", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	outDir := fs.String("o", "", "write the results into this `DIR` (default: the model file's name without .toml, plus _results)")
+	verbose := fs.Bool("verbose", false, "log every Newton iteration on stderr")
+	fs.Usage = func() {
+		fmt.Fprintf(stderr, `Usage: flangeseg run MODEL.toml [-o DIR] [--verbose]
+
+Builds the finite-element model of one bolt segment from MODEL.toml,
+preloads the bolt, loads the segment in tension by moving the shell end and
+writes into DIR: history.csv (one row per converged increment), summary.json
+(preload, stiffness, load factor, opening and decompression load, peak,
+hand methods), plots (SVG and PNG), the fields as VTK (fields/*.vtu,
+fields.pvd) and model.resolved.toml (the model with every default filled
+in). Exit codes: 0 done, 2 bad model file, 3 the analysis stopped before
+its end (results up to the last converged increment are written).
+
+%s
+
+Flags:
+`, caution)
+		fs.PrintDefaults()
+	}
+	if err := fs.Parse(reorder(args)); err != nil {
+		return parseExit(err)
+	}
+	if fs.NArg() != 1 {
+		fmt.Fprintln(stderr, "flangeseg run: give exactly one model file (flangeseg run MODEL.toml -o DIR)")
+		return exitBadInput
+	}
+	path := fs.Arg(0)
+	dir := *outDir
+	if dir == "" {
+		dir = strings.TrimSuffix(filepath.Base(path), ".toml") + "_results"
+	}
+	spec, err := loadSpec(path)
+	if err != nil {
+		fmt.Fprintln(stderr, err)
+		return exitBadInput
+	}
+	return runModel(spec, path, dir, *verbose, stdout, stderr)
+}
+
+// runModel runs one valid model and writes its results; it returns the
+// exit code.
+func runModel(spec *Spec, path, dir string, verbose bool, stdout, stderr io.Writer) int {
+	d := spec.derive()
+	for _, w := range d.Warnings {
+		fmt.Fprintf(stderr, "%s: warning: %s\n", path, w)
+	}
+	seg, err := buildSegment(spec, d)
+	if err != nil {
+		fmt.Fprintf(stderr, "%s: %v\n", path, err)
+		return exitBadInput
+	}
+	opt := analyseOptions{keep: func(int) bool { return true }}
+	if verbose {
+		opt.log = func(line string) { fmt.Fprintln(stderr, line) }
+	} else if bar := progressBar(stderr, spec.Load.Increments, filepath.Base(path)); bar != nil {
+		opt.progress = func(done, _ int) { _ = bar.Set(done) }
+		defer bar.Finish()
+	}
+	start := time.Now()
+	res, err := seg.analyse(opt)
+	if err != nil {
+		fmt.Fprintf(stderr, "%s: analysis: %v\n", path, err)
+		return exitAnalysis
+	}
+	sum, err := writeResults(dir, path, seg, res)
+	if err != nil {
+		fmt.Fprintf(stderr, "%s: writing results: %v\n", path, err)
+		return exitAnalysis
+	}
+	printSummary(stdout, sum, dir, time.Since(start))
+	if res.failure != nil {
+		fmt.Fprintf(stderr, "%s: the analysis stopped: %v\nresults up to the last converged increment are in %s\n", path, res.failure, dir)
+		return exitAnalysis
+	}
+	return exitOK
+}
+
+// progressBar returns a bar on a terminal, nil in pipes and CI.
+func progressBar(w io.Writer, n int, name string) *progressbar.ProgressBar {
+	f, ok := w.(*os.File)
+	if !ok || !term.IsTerminal(int(f.Fd())) || os.Getenv("CI") != "" {
+		return nil
+	}
+	return progressbar.NewOptions(n, progressbar.OptionSetWriter(w), progressbar.OptionSetDescription(name),
+		progressbar.OptionClearOnFinish(), progressbar.OptionShowCount())
+}
+
+// reorder puts flags before positional arguments, so that
+// `run MODEL.toml -o DIR` parses like `run -o DIR MODEL.toml`.
+func reorder(args []string) []string {
+	var flags, pos []string
+	for i := 0; i < len(args); i++ {
+		a := args[i]
+		switch {
+		case a == "--":
+			pos = append(pos, args[i+1:]...)
+			i = len(args)
+		case strings.HasPrefix(a, "-") && a != "-":
+			flags = append(flags, a)
+			if !strings.Contains(a, "=") && (a == "-o" || a == "--o") && i+1 < len(args) {
+				flags = append(flags, args[i+1])
+				i++
+			}
+		default:
+			pos = append(pos, a)
+		}
+	}
+	return append(flags, pos...)
+}
+
+func kNOr(p *float64) string {
+	if p == nil {
+		return "not reached"
+	}
+	return fmt.Sprintf("%.1f kN", *p)
+}
+
+func kNPerMMOr(p *float64) string {
+	if p == nil {
+		return "—"
+	}
+	return fmt.Sprintf("%.0f kN/mm", *p)
+}
+
+func printSummary(w io.Writer, s summary, dir string, took time.Duration) {
+	j := s.Joint
+	fmt.Fprintf(w, "%s\n", s.Title)
+	fmt.Fprintf(w, "  preload               %.1f kN (target %.1f kN)\n", j.PreloadReachedKN, j.PreloadTargetKN)
+	fmt.Fprintf(w, "  stiffness at Z = 0    %.0f kN/mm (joint alone %.0f kN/mm)\n", j.StiffnessTangentZero, j.JointStiffnessTangent)
+	fmt.Fprintf(w, "  secant to %.0f kN     %s (joint alone %s)\n", j.ReferenceLoadKN, kNPerMMOr(j.StiffnessToReference), kNPerMMOr(j.JointStiffnessReference))
+	fmt.Fprintf(w, "  load factor at Z = 0  %.3f\n", j.LoadFactorTangentZero)
+	fmt.Fprintf(w, "  opening load          %s\n", kNOr(j.OpeningLoadKN))
+	fmt.Fprintf(w, "  decompression load    %s\n", kNOr(j.DecompressionKN))
+	fmt.Fprintf(w, "  largest Z             %.1f kN at u = %.3f mm (%s)\n", j.PeakLoadKN, j.DisplacementPeakMM, s.Ending)
+	fmt.Fprintf(w, "  hand ultimate load    %.1f kN (%s)\n", j.HandUltimateKN, j.HandUltimateBasis)
+	fmt.Fprintf(w, "  largest penetration   %.2g mm\n", j.PenetrationMaxMM)
+	fmt.Fprintf(w, "  %d equations, %d increments, %d Newton iterations, %.1f s; results in %s\n",
+		s.Mesh.Equations, s.Solver.Increments, s.Solver.NewtonIterations, took.Seconds(), dir)
+}

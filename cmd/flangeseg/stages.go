@@ -1,0 +1,240 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"flangeseg/contact"
+	"flangeseg/fem"
+)
+
+// historyRow is one converged state of the analysis.
+type historyRow struct {
+	increment   int
+	stage       string
+	z           float64 // segment force Z, N
+	u           float64 // loaded-edge displacement from the preloaded state, mm
+	fs          float64 // bolt force at the contact plane, N
+	mInterface  float64 // bolt bending moment at the contact plane, N·mm
+	mHead       float64 // bolt bending moment under the head, N·mm
+	gapEdge     float64 // opening at the shell-side corner, mm
+	zoneForce   []float64
+	shellSide   float64 // contact force between bolt axis and shell face (x ≥ 0), N
+	penetration float64 // largest penetration of any pair, mm
+	iterations  int
+}
+
+// state is a converged state kept for field output.
+type state struct {
+	label    string
+	row      historyRow
+	solution *fem.Solution
+	contacts map[string][]contact.NodeResult
+}
+
+// analysis is what a run produced, up to its last converged increment.
+type analysis struct {
+	rows     []historyRow
+	states   []state
+	preload  fem.PreloadResult
+	ending   string // why the tension stage ended
+	failure  error  // non-nil if the analysis stopped before its end
+	timing   fem.Timing
+	equation int
+}
+
+type analyseOptions struct {
+	log      func(string)        // per-iteration log (--verbose), or nil
+	progress func(done, all int) // after each increment, or nil
+	keep     func(inc int) bool  // which increments to keep fields of
+}
+
+// analyse runs the preload and tension stages. A failure to converge ends
+// the analysis but keeps every converged increment; it is reported in
+// analysis.failure, while setup errors are returned.
+func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
+	s, err := fem.NewSolver(g.model, g.pairs(), fem.NewtonOptions{Log: opt.log, ForceScale: g.der.DesignPreload, Tolerance: 1e-7})
+	if err != nil {
+		return nil, err
+	}
+	res := &analysis{equation: g.model.Equations()}
+	v0, err := g.preload(s, res)
+	if err != nil {
+		if fem.IsNotConverged(err) {
+			res.failure = fmt.Errorf("preload: %w", err)
+			res.ending = "the preload stage did not converge"
+			res.timing = s.Timing
+			return res, nil
+		}
+		return nil, err
+	}
+	row, err := g.record(s, 0, "preload", v0, 0)
+	if err != nil {
+		return nil, err
+	}
+	if err := g.keepState(s, res, "preload", row); err != nil {
+		return nil, err
+	}
+	res.rows = append(res.rows, row)
+	ld := g.spec.Load
+	peak := 0.0
+	res.ending = "maximum displacement reached"
+	err = s.Ramp(g.edge.Axial, v0+ld.MaxDisplacement, fem.RampOptions{Increments: ld.Increments}, func(inc fem.Increment) (bool, error) {
+		row, err := g.record(s, inc.Index, "tension", v0, inc.Iterations)
+		if err != nil {
+			return true, err
+		}
+		res.rows = append(res.rows, row)
+		if opt.keep == nil || opt.keep(inc.Index) || inc.Fraction >= 1 {
+			if err := g.keepState(s, res, fmt.Sprintf("increment %d", inc.Index), row); err != nil {
+				return true, err
+			}
+		}
+		if opt.progress != nil {
+			opt.progress(int(math.Round(inc.Fraction*float64(ld.Increments))), ld.Increments)
+		}
+		peak = math.Max(peak, row.z)
+		if peak > 0 && row.z < (1-ld.StopDrop)*peak {
+			res.ending = fmt.Sprintf("segment force fell %.0f %% below its peak", 100*ld.StopDrop)
+			return true, nil
+		}
+		return false, nil
+	})
+	res.timing = s.Timing
+	if err != nil {
+		var nc *fem.NotConvergedError
+		if !errors.As(err, &nc) {
+			return nil, err
+		}
+		res.failure = err
+		res.ending = "the tension stage did not converge"
+	}
+	return res, nil
+}
+
+// preload brings the bolt to its target with the loaded edge free of
+// force: the slice is shortened with the edge held, then the edge is moved
+// to where it carries no force, and the two are repeated until the bolt
+// force holds its target within 0.5 %. It returns the edge position.
+func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
+	force := func() (float64, error) {
+		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
+		return f, err
+	}
+	target := g.der.PreloadForce
+	v := 0.0
+	for round := 0; round < 8; round++ {
+		if target > 0 {
+			pr, err := s.Preload("bolt_preload", target, 0.001, force)
+			if err != nil {
+				return 0, err
+			}
+			res.preload = pr
+		} else if err := s.Shorten("bolt_preload", g.der.PreloadShortening, g.slice); err != nil {
+			return 0, err
+		}
+		var err error
+		if v, err = g.release(s, v); err != nil {
+			return 0, err
+		}
+		f, err := force()
+		if err != nil {
+			return 0, err
+		}
+		res.preload.Force = f
+		if target == 0 {
+			res.preload.Eigenstrain = -g.der.PreloadShortening / g.slice
+			return v, nil
+		}
+		if math.Abs(f-target) <= 0.005*target {
+			return v, nil
+		}
+	}
+	return 0, fmt.Errorf("preload: the bolt force did not settle at %.1f kN with the shell end free", target/1e3)
+}
+
+// release moves the loaded edge, by secant steps from v, to the position
+// where its reaction vanishes.
+func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
+	m := g.model
+	at := func(x float64) (float64, error) {
+		if err := m.SetValue(g.edge.Axial, x); err != nil {
+			return 0, err
+		}
+		if _, err := s.Equilibrium(); err != nil {
+			s.Revert()
+			return 0, err
+		}
+		s.Commit()
+		return s.Reaction(g.edge.Axial)
+	}
+	z0, err := at(v)
+	if err != nil {
+		return 0, err
+	}
+	scale := math.Max(math.Abs(g.der.PreloadForce), g.der.DesignPreload)
+	v1 := v - 1e-3
+	for it := 0; it < 20; it++ {
+		if math.Abs(z0) <= 1e-7*scale {
+			return v, nil
+		}
+		z1, err := at(v1)
+		if err != nil {
+			return 0, err
+		}
+		if z1 == z0 {
+			return 0, fmt.Errorf("preload: the loaded edge does not respond")
+		}
+		v, v1, z0 = v1, v1-z1*(v1-v)/(z1-z0), z1
+	}
+	return 0, fmt.Errorf("preload: the shell end did not come free of force")
+}
+
+// record measures the current state.
+func (g *segment) record(s *fem.Solver, inc int, stage string, v0 float64, its int) (historyRow, error) {
+	row := historyRow{increment: inc, stage: stage, iterations: its}
+	var err error
+	if row.z, err = s.Reaction(g.edge.Axial); err != nil {
+		return row, err
+	}
+	row.u = s.U()[g.edge.Axial] - v0
+	if row.fs, _, row.mInterface, err = s.SectionForce(g.cut.elems, g.cut.nodes, 0); err != nil {
+		return row, err
+	}
+	if _, _, row.mHead, err = s.SectionForce(g.under.elems, g.under.nodes, 0); err != nil {
+		return row, err
+	}
+	cur := s.Current()
+	corner := g.spec.Flange.B + g.spec.Shell.Thickness/2
+	best := math.Inf(1)
+	for _, r := range g.faces.NodeResults(cur) {
+		// The corner node itself may find no master point beyond the
+		// face's end; the nearest paired node stands for it.
+		if d := math.Abs(r.X - corner); d < best && r.Paired {
+			best, row.gapEdge = d, r.Gap
+		}
+	}
+	for _, z := range g.zones {
+		row.zoneForce = append(row.zoneForce, g.faces.ForceBetween(cur, z.x0, z.x1))
+	}
+	row.shellSide = g.faces.ForceBetween(cur, 0, corner+1)
+	for _, p := range []*contact.Pair{g.faces, g.head, g.nut} {
+		row.penetration = math.Max(row.penetration, p.MaxPenetration(cur))
+	}
+	return row, nil
+}
+
+func (g *segment) keepState(s *fem.Solver, res *analysis, label string, row historyRow) error {
+	sol, err := s.Snapshot()
+	if err != nil {
+		return err
+	}
+	cur := s.Current()
+	res.states = append(res.states, state{label: label, row: row, solution: sol, contacts: map[string][]contact.NodeResult{
+		"faces": g.faces.NodeResults(cur),
+		"head":  g.head.NodeResults(cur),
+		"nut":   g.nut.NodeResults(cur),
+	}})
+	return nil
+}
