@@ -22,6 +22,7 @@ type historyRow struct {
 	zoneForce   []float64
 	shellSide   float64 // contact force between bolt axis and shell face (x ≥ 0), N
 	penetration float64 // largest penetration of any pair, mm
+	zFixed      float64 // z reaction at the fixed shell end, N (equilibrium check)
 	iterations  int
 }
 
@@ -199,6 +200,9 @@ func (g *segment) record(s *fem.Solver, inc int, stage string, v0 float64, its i
 		return row, err
 	}
 	row.u = s.U()[g.edge.Axial] - v0
+	if _, row.zFixed, err = s.NodeSetReaction("lower_end"); err != nil {
+		return row, err
+	}
 	if row.fs, _, row.mInterface, err = s.SectionForce(g.cut.elems, g.cut.nodes, 0); err != nil {
 		return row, err
 	}

@@ -1,0 +1,137 @@
+package main
+
+import (
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// coarseDemo is the flat demo joint on a coarse mesh with few increments,
+// so that the whole pipeline runs in a test.
+func coarseDemo(t *testing.T, edit func(*Spec)) (*segment, *analysis) {
+	t.Helper()
+	spec, err := decodeSpec(demoModels()[0].Data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec.Mesh.Size, spec.Mesh.Refine = 16, 0.5
+	spec.Load.Increments, spec.Load.MaxDisplacement = 6, 0.6
+	if edit != nil {
+		edit(spec)
+	}
+	if err := spec.validate(); err != nil {
+		t.Fatal(err)
+	}
+	g, err := buildSegment(spec, spec.derive())
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := g.analyse(analyseOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.failure != nil {
+		t.Fatal(res.failure)
+	}
+	return g, res
+}
+
+// Equilibrium (statics): the z reaction at the fixed shell end balances the
+// segment force at the loaded end at every increment, to 1e-6 relative.
+func TestRunEquilibrium(t *testing.T) {
+	_, res := coarseDemo(t, nil)
+	if len(res.rows) != 7 {
+		t.Fatalf("%d rows, want preload + 6 increments", len(res.rows))
+	}
+	for _, r := range res.rows[1:] {
+		if e := math.Abs(r.z+r.zFixed) / math.Abs(r.z); e > 1e-6 {
+			t.Errorf("increment %d: Z = %.6g N, fixed-end reaction %.6g N (error %.2g)", r.increment, r.z, r.zFixed, e)
+		}
+	}
+}
+
+// The preload is reached within 0.5 % for a force and for a fraction of
+// F_p,C (EN 1993-1-8, 3.9: F_p,C = 0.7·f_ub·A_s); a nut turn locks the
+// shortening angle/360·P exactly.
+func TestPreloadWays(t *testing.T) {
+	force, fraction, turn := 600e3, 0.8, 60.0
+	cases := []struct {
+		name string
+		edit func(*Spec)
+	}{
+		{"force", func(s *Spec) { s.Preload = PreloadSpec{Force: &force} }},
+		{"fraction", func(s *Spec) { s.Preload = PreloadSpec{Fraction: &fraction} }},
+		{"nut turn", func(s *Spec) { s.Preload = PreloadSpec{NutTurn: &turn} }},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			g, res := coarseDemo(t, func(s *Spec) { c.edit(s); s.Load.Increments = 1; s.Load.MaxDisplacement = 0.05 })
+			got := res.rows[0].fs
+			switch {
+			case g.der.PreloadForce > 0:
+				if e := math.Abs(got-g.der.PreloadForce) / g.der.PreloadForce; e > 0.005 {
+					t.Errorf("bolt force %.1f kN, target %.1f kN (%.2f %%)", got/1e3, g.der.PreloadForce/1e3, 100*e)
+				}
+			default:
+				want := turn / 360 * g.der.Pitch
+				if locked := -res.preload.Eigenstrain * g.slice; math.Abs(locked-want) > 1e-12 {
+					t.Errorf("locked shortening %g mm, want %g mm", locked, want)
+				}
+				if got <= 0 {
+					t.Errorf("nut turn gave bolt force %g N", got)
+				}
+			}
+		})
+	}
+}
+
+// run writes every promised file and exits 0; an invalid model exits 2
+// and creates no output directory.
+func TestRunWritesResults(t *testing.T) {
+	dir := t.TempDir()
+	model := filepath.Join(dir, "joint.toml")
+	data := string(demoModels()[0].Data) + "\n"
+	data = replaceKey(t, data, "size = 8", "size = 16")
+	data = replaceKey(t, data, "increments = 40", "increments = 3")
+	if err := os.WriteFile(model, []byte(data), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "out")
+	code, stdout, stderr := runCLI("run", model, "-o", out)
+	if code != exitOK {
+		t.Fatalf("exit %d\n%s%s", code, stdout, stderr)
+	}
+	for _, f := range []string{"history.csv", "summary.json", "model.resolved.toml", "fields.pvd", "fields/state_000.vtu",
+		"Z_u.svg", "Z_u.png", "Fs_Z.svg", "Ms_Z.svg", "gap_Z.svg", "contact_force_Z.svg", "contact_pressure.svg"} {
+		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
+			t.Errorf("missing %s", f)
+		}
+	}
+	bad := filepath.Join(dir, "bad.toml")
+	if err := os.WriteFile(bad, []byte(replaceKey(t, data, "hole = 52", "hole = 40")), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	badOut := filepath.Join(dir, "bad_out")
+	if code, _, stderr := runCLI("run", bad, "-o", badOut); code != exitBadInput {
+		t.Errorf("invalid model: exit %d, want 2 (%s)", code, stderr)
+	}
+	if _, err := os.Stat(badOut); !os.IsNotExist(err) {
+		t.Errorf("invalid model created %s", badOut)
+	}
+}
+
+// replaceKey replaces one whole line of a model file.
+func replaceKey(t *testing.T, data, line, with string) string {
+	t.Helper()
+	lines := strings.Split(data, "\n")
+	for i, l := range lines {
+		if strings.TrimSpace(l) == line {
+			lines[i] = with
+			return strings.Join(lines, "\n")
+		}
+	}
+	t.Fatalf("line %q not in the model", line)
+	return ""
+}
