@@ -38,7 +38,8 @@ var benchSizes = []struct {
 }{{"20k", 58}, {"200k", 183}}
 
 // BenchmarkAssemble times one assembly of tangent and internal force on a
-// fixed pattern, as a Newton iteration does it.
+// fixed pattern, as a Newton iteration of an elastic model does it (element
+// stiffnesses cached after the first).
 func BenchmarkAssemble(b *testing.B) {
 	for _, bs := range benchSizes {
 		b.Run(bs.name, func(b *testing.B) {
@@ -53,6 +54,30 @@ func BenchmarkAssemble(b *testing.B) {
 			b.ReportMetric(float64(m.nEq), "equations")
 			b.ResetTimer()
 			for i := 0; i < b.N; i++ {
+				if err := a.assemble(u, fint, k, nil); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// BenchmarkAssembleFirst times the first assembly of a model: every
+// element evaluated at its Gauss points (this is the cost of an iteration
+// once materials are nonlinear; elastic elements are cached after it).
+func BenchmarkAssembleFirst(b *testing.B) {
+	for _, bs := range benchSizes {
+		b.Run(bs.name, func(b *testing.B) {
+			m := benchBlock(b, bs.n)
+			k, err := newAssembler(m).pattern()
+			if err != nil {
+				b.Fatal(err)
+			}
+			u := make([]float64, m.nDof)
+			fint := make([]float64, m.nDof)
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				a := newAssembler(m)
 				if err := a.assemble(u, fint, k, nil); err != nil {
 					b.Fatal(err)
 				}
