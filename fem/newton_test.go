@@ -33,11 +33,10 @@ func stackedBar(t *testing.T) *mesh.Mesh {
 	return m
 }
 
-// A bar held at both ends with a shortened slice carries the uniaxial force
-// σ·A with σ = E·ε·l_slice/L (springs in series, statics); Preload finds the
-// eigenstrain for a target force within the tolerance asked.
-func TestPreloadBar(t *testing.T) {
-	msh := stackedBar(t)
+// barModel holds the bar's bottom in z (and one node in x) and ties its
+// top to a rigid edge held at zero.
+func barModel(t *testing.T, msh *mesh.Mesh) (*Model, RigidEdge) {
+	t.Helper()
 	m, err := NewModel(msh, steel, Options{Condition: material.PlaneStress})
 	if err != nil {
 		t.Fatal(err)
@@ -55,6 +54,15 @@ func TestPreloadBar(t *testing.T) {
 	if err := m.Fix(edge.Axial, 0); err != nil {
 		t.Fatal(err)
 	}
+	return m, edge
+}
+
+// A bar held at both ends with a shortened slice carries the uniaxial force
+// σ·A with σ = E·ε·l_slice/L (springs in series, statics); Preload finds the
+// eigenstrain for a target force within the tolerance asked.
+func TestPreloadBar(t *testing.T) {
+	msh := stackedBar(t)
+	m, edge := barModel(t, msh)
 	s, err := NewSolver(m, nil, NewtonOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -104,27 +112,7 @@ func TestPreloadBar(t *testing.T) {
 // response as the linear solve (a linear model converges in one step).
 func TestRampMatchesLinear(t *testing.T) {
 	msh := stackedBar(t)
-	build := func() (*Model, RigidEdge) {
-		m, err := NewModel(msh, steel, Options{Condition: material.PlaneStress})
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := m.FixSet("bottom", Z, 0); err != nil {
-			t.Fatal(err)
-		}
-		if err := m.Fix(m.NodeDof(msh.NearestNode(mesh.Point{}), X), 0); err != nil {
-			t.Fatal(err)
-		}
-		edge, err := m.AddRigidEdge("top", mesh.Point{X: 5, Z: 100}, RigidEdgeOptions{FixRotation: true, LateralFree: true})
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := m.Fix(edge.Axial, 0); err != nil {
-			t.Fatal(err)
-		}
-		return m, edge
-	}
-	m, edge := build()
+	m, edge := barModel(t, msh)
 	s, err := NewSolver(m, nil, NewtonOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -144,7 +132,7 @@ func TestRampMatchesLinear(t *testing.T) {
 		t.Errorf("last increment %+v", last)
 	}
 	pull, _ := s.Reaction(edge.Axial)
-	lm, ledge := build()
+	lm, ledge := barModel(t, msh)
 	if err := lm.SetValue(ledge.Axial, 0.1); err != nil {
 		t.Fatal(err)
 	}

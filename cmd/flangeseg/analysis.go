@@ -256,10 +256,6 @@ func (g *segment) faceGap(x float64) float64 {
 
 func (g *segment) contacts() error {
 	s, d := g.spec, g.der
-	ref := make([]contact.Point, len(g.mesh.Nodes))
-	for i, p := range g.mesh.Nodes {
-		ref[i] = contact.Point{X: p.X, Z: p.Z}
-	}
 	// A penalty well above the stiffness of the finest elements; the
 	// augmented-Lagrangian updates then bring the penetration below 1 µm.
 	g.penalty = 10 * g.shellE / (s.Mesh.Size * s.Mesh.Refine)
@@ -273,14 +269,14 @@ func (g *segment) contacts() error {
 	}
 	bearing := func(x, _ float64) float64 { return d.BearingStrip }
 	var err error
-	if g.faces, err = g.pair("flange faces", "upper_face", "lower_face", ref, set,
+	if g.faces, err = fem.NewContactPair("flange faces", g.mesh, "upper_face", "lower_face", set,
 		func(x, _ float64) float64 { return g.faceGap(x) }, stripWidth); err != nil {
 		return err
 	}
-	if g.head, err = g.pair("head washer", "head_bearing", "upper_top", ref, set, nil, bearing); err != nil {
+	if g.head, err = fem.NewContactPair("head washer", g.mesh, "head_bearing", "upper_top", set, nil, bearing); err != nil {
 		return err
 	}
-	if g.nut, err = g.pair("nut washer", "nut_bearing", "lower_bottom", ref, set, nil, bearing); err != nil {
+	if g.nut, err = fem.NewContactPair("nut washer", g.mesh, "nut_bearing", "lower_bottom", set, nil, bearing); err != nil {
 		return err
 	}
 	face1 := s.Flange.B + s.Shell.Thickness/2
@@ -291,34 +287,6 @@ func (g *segment) contacts() error {
 		g.zones = append(g.zones, zoneRange{fmt.Sprintf("zone%d", i+1), z.From - 1e-9, z.To + 1e-9})
 	}
 	return nil
-}
-
-func (g *segment) pair(name, slave, master string, ref []contact.Point, set contact.Settings,
-	gap0, weight func(x, z float64) float64) (*contact.Pair, error) {
-	surf := func(edgeSet string) (contact.Surface, error) {
-		edges, ok := g.mesh.EdgeSets[edgeSet]
-		if !ok || len(edges) == 0 {
-			return contact.Surface{}, fmt.Errorf("mesh: surface %q is missing", edgeSet)
-		}
-		var sf contact.Surface
-		for _, e := range edges {
-			sf.Segments = append(sf.Segments, e.Nodes)
-		}
-		return sf, nil
-	}
-	sl, err := surf(slave)
-	if err != nil {
-		return nil, err
-	}
-	ms, err := surf(master)
-	if err != nil {
-		return nil, err
-	}
-	p, err := contact.NewPair(name, sl, ms, ref, set, gap0, weight)
-	if err != nil {
-		return nil, fmt.Errorf("contact %s: %w", name, err)
-	}
-	return p, nil
 }
 
 // section collects a node line across the bolt and the bolt elements on

@@ -100,3 +100,12 @@ func buildMesh(p mesh.Plan, kind mesh.Kind) (*mesh.Mesh, error) {
 	}
 	return m, nil
 }
+
+// fixSymmetry holds the symmetry cuts of a quarter model: the node set
+// "symmetry_z" (on z = 0) in z and "symmetry_x" (on x = 0) in x.
+func fixSymmetry(m *fem.Model) error {
+	if err := m.FixSet("symmetry_z", fem.Z, 0); err != nil {
+		return err
+	}
+	return m.FixSet("symmetry_x", fem.X, 0)
+}

@@ -24,26 +24,6 @@ func contactSolve(m *fem.Model, pairs []fem.ContactPair, edge fem.RigidEdge, w f
 	return s, err
 }
 
-func refPoints(msh *mesh.Mesh) []contact.Point {
-	ref := make([]contact.Point, len(msh.Nodes))
-	for i, p := range msh.Nodes {
-		ref[i] = contact.Point{X: p.X, Z: p.Z}
-	}
-	return ref
-}
-
-func surface(msh *mesh.Mesh, set string) (contact.Surface, error) {
-	edges, ok := msh.EdgeSets[set]
-	if !ok {
-		return contact.Surface{}, fmt.Errorf("edge set %q missing", set)
-	}
-	var s contact.Surface
-	for _, e := range edges {
-		s.Segments = append(s.Segments, e.Nodes)
-	}
-	return s, nil
-}
-
 // runContactPatch: two blocks pressed together through non-matching meshes
 // (7 elements over 5) by a uniform displacement of the upper block's top.
 // The contact pressure must come out uniform (contact patch test, Taylor &
@@ -82,15 +62,7 @@ func runContactPatch(o Options) (*Outcome, error) {
 	if err != nil {
 		return nil, err
 	}
-	slave, err := surface(msh, "upper_bottom")
-	if err != nil {
-		return nil, err
-	}
-	master, err := surface(msh, "lower_top")
-	if err != nil {
-		return nil, err
-	}
-	pair, err := contact.NewPair("patch", slave, master, refPoints(msh),
+	pair, err := fem.NewContactPair("patch", msh, "upper_bottom", "lower_top",
 		contact.Settings{Penalty: 1e3 * steel.E / height}, nil, func(x, z float64) float64 { return thick })
 	if err != nil {
 		return nil, err

@@ -77,10 +77,7 @@ func runLame(o Options) (*Outcome, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := m.FixSet("symmetry_z", fem.Z, 0); err != nil {
-		return nil, err
-	}
-	if err := m.FixSet("symmetry_x", fem.X, 0); err != nil {
+	if err := fixSymmetry(m); err != nil {
 		return nil, err
 	}
 	if err := m.AddPressure("inner", lamePressure); err != nil {

@@ -43,15 +43,7 @@ func runHertz(o Options) (*Outcome, error) {
 	if err != nil {
 		return nil, err
 	}
-	slave, err := surface(msh, "cylinder_surface")
-	if err != nil {
-		return nil, err
-	}
-	master, err := surface(msh, "block_top")
-	if err != nil {
-		return nil, err
-	}
-	pair, err := contact.NewPair("hertz", slave, master, refPoints(msh),
+	pair, err := fem.NewContactPair("hertz", msh, "cylinder_surface", "block_top",
 		contact.Settings{Penalty: 1e3 * steel.E / radius, FrozenGeometry: true}, nil, nil)
 	if err != nil {
 		return nil, err

@@ -45,10 +45,7 @@ func runKirsch(o Options) (*Outcome, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := m.FixSet("symmetry_z", fem.Z, 0); err != nil {
-		return nil, err
-	}
-	if err := m.FixSet("symmetry_x", fem.X, 0); err != nil {
+	if err := fixSymmetry(m); err != nil {
 		return nil, err
 	}
 	if err := m.AddTraction("far_x", sigma0, 0); err != nil {

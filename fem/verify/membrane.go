@@ -59,10 +59,7 @@ func runLE1(o Options) (*Outcome, error) {
 		if err != nil {
 			return nil, err
 		}
-		if err := m.FixSet("symmetry_z", fem.Z, 0); err != nil {
-			return nil, err
-		}
-		if err := m.FixSet("symmetry_x", fem.X, 0); err != nil {
+		if err := fixSymmetry(m); err != nil {
 			return nil, err
 		}
 		if err := m.AddPressure("outer", -10); err != nil { // outward: a negative pressure
