@@ -13,6 +13,7 @@ type jointFigures struct {
 	PreloadReachedKN   float64  `json:"preload_reached_kN"`
 	PreloadEigenstrain float64  `json:"preload_slice_strain"`
 	OpeningLoadKN      *float64 `json:"opening_load_kN"`
+	OpenAfterPreload   bool     `json:"open_after_preload"`
 	DecompressionKN    *float64 `json:"decompression_load_kN"`
 	ReferenceLoadKN    float64  `json:"reference_load_kN"`
 	ReferenceFrom      string   `json:"reference_load_from"`
@@ -36,6 +37,9 @@ type jointFigures struct {
 	HandUltimateBasis   string  `json:"hand_ultimate_basis"`
 	StubElongationPerKN float64 `json:"stub_elongation_per_kN_mm"`
 }
+
+// openGap is the opening that counts as open (DESIGN.md: gap > 1 µm).
+const openGap = 1e-3
 
 // crossing returns the first Z at which f(row) passes from false to true,
 // interpolating linearly on the quantity q between the two rows.
@@ -94,9 +98,17 @@ func figures(g *segment, res *analysis) jointFigures {
 	f.StiffnessTangentZero = secant(first.z, first.u)
 	f.JointStiffnessTangent = joint(first.z, first.u)
 	f.LoadFactorTangentZero = (first.fs - p.fs) / (first.z - p.z)
-	f.OpeningLoadKN = crossing(rows, func(r historyRow) float64 { return r.gapEdge }, 1e-3)
+	if p.gapEdge > openGap {
+		// The corner is open after preload already (a band face bent by
+		// the preload): it opens at Z = 0.
+		zero := 0.0
+		f.OpeningLoadKN = &zero
+		f.OpenAfterPreload = true
+	} else {
+		f.OpeningLoadKN = crossing(rows, func(r historyRow) float64 { return r.gapEdge }, openGap)
+	}
 	f.DecompressionKN = crossing(rows, func(r historyRow) float64 { return -r.shellSide }, -1e-6)
-	if f.OpeningLoadKN != nil {
+	if f.OpeningLoadKN != nil && *f.OpeningLoadKN > 0 {
 		z := *f.OpeningLoadKN * 1e3
 		if u, ok := at(rows, z, func(r historyRow) float64 { return r.u }); ok {
 			k, kj := secant(z, u), joint(z, u)
