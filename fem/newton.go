@@ -36,6 +36,10 @@ type NewtonOptions struct {
 	ForceScale float64
 	// Log, if set, receives one line per iteration (the --verbose log).
 	Log func(line string)
+	// Inspect, if set, sees the first assembled tangent and residual (in
+	// equation space) before it is factorized, e.g. to write them in
+	// Matrix Market form. An error from it stops the solve.
+	Inspect func(k *sparse.Matrix, rhs []float64) error
 }
 
 func (o *NewtonOptions) defaults() {
@@ -330,6 +334,13 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		}
 		if math.IsNaN(rel) || it > s.opt.MaxIterations {
 			return it - 1, &NotConvergedError{Iterations: it - 1, Residual: rel, Reason: "the residual does not fall below the tolerance"}
+		}
+		if s.opt.Inspect != nil {
+			inspect := s.opt.Inspect
+			s.opt.Inspect = nil
+			if err := inspect(s.k, r); err != nil {
+				return it, err
+			}
 		}
 		start := time.Now()
 		if err := s.chol.Factorize(s.sym, s.k); err != nil {

@@ -55,7 +55,7 @@ Flags:
 		}
 		dir := filepath.Join(*outDir, m.Name)
 		var out bytes.Buffer
-		code := runModel(spec, m.Name+".toml", dir, *verbose, &out, stderr)
+		code := runModel(spec, m.Name+".toml", dir, runFlags{verbose: *verbose}, &out, stderr)
 		stdout.Write(out.Bytes())
 		fmt.Fprintln(stdout)
 		if code != exitOK {

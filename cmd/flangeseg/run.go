@@ -10,6 +10,8 @@ import (
 	"time"
 
 	"github.com/schollz/progressbar/v3"
+
+	"flangeseg/fem/sparse"
 	"golang.org/x/term"
 )
 
@@ -18,8 +20,9 @@ func runRun(args []string, stdout, stderr io.Writer) int {
 	fs.SetOutput(stderr)
 	outDir := fs.String("o", "", "write the results into this `DIR` (default: the model file's name without .toml, plus _results)")
 	verbose := fs.Bool("verbose", false, "log every Newton iteration on stderr")
+	dump := fs.String("dump-matrix", "", "write the first assembled tangent and residual in Matrix Market form into this `DIR`")
 	fs.Usage = func() {
-		fmt.Fprintf(stderr, `Usage: flangeseg run MODEL.toml [-o DIR] [--verbose]
+		fmt.Fprintf(stderr, `Usage: flangeseg run MODEL.toml [-o DIR] [--verbose] [--dump-matrix DIR]
 
 Builds the finite-element model of one bolt segment from MODEL.toml,
 preloads the bolt, loads the segment in tension by moving the shell end and
@@ -53,12 +56,18 @@ Flags:
 		fmt.Fprintln(stderr, err)
 		return exitBadInput
 	}
-	return runModel(spec, path, dir, *verbose, stdout, stderr)
+	return runModel(spec, path, dir, runFlags{verbose: *verbose, dump: *dump}, stdout, stderr)
+}
+
+// runFlags are the options of a run that do not come from the model file.
+type runFlags struct {
+	verbose bool
+	dump    string // --dump-matrix directory, or ""
 }
 
 // runModel runs one valid model and writes its results; it returns the
 // exit code.
-func runModel(spec *Spec, path, dir string, verbose bool, stdout, stderr io.Writer) int {
+func runModel(spec *Spec, path, dir string, flags runFlags, stdout, stderr io.Writer) int {
 	d := spec.derive()
 	for _, w := range d.Warnings {
 		fmt.Fprintf(stderr, "%s: warning: %s\n", path, w)
@@ -69,7 +78,16 @@ func runModel(spec *Spec, path, dir string, verbose bool, stdout, stderr io.Writ
 		return exitBadInput
 	}
 	opt := analyseOptions{keep: func(int) bool { return true }}
-	if verbose {
+	if flags.dump != "" {
+		if err := os.MkdirAll(flags.dump, 0o755); err != nil {
+			fmt.Fprintf(stderr, "%s: --dump-matrix: %v\n", path, err)
+			return exitBadInput
+		}
+		opt.inspect = func(k *sparse.Matrix, rhs []float64) error {
+			return dumpSystem(flags.dump, strings.TrimSuffix(filepath.Base(path), ".toml")+" first tangent", k, rhs)
+		}
+	}
+	if flags.verbose {
 		opt.log = func(line string) { fmt.Fprintln(stderr, line) }
 	} else if bar := progressBar(stderr, spec.Load.Increments, filepath.Base(path)); bar != nil {
 		opt.progress = func(done, _ int) { _ = bar.Set(done) }
@@ -116,7 +134,7 @@ func reorder(args []string) []string {
 			i = len(args)
 		case strings.HasPrefix(a, "-") && a != "-":
 			flags = append(flags, a)
-			if !strings.Contains(a, "=") && (a == "-o" || a == "--o") && i+1 < len(args) {
+			if !strings.Contains(a, "=") && valueFlag(a) && i+1 < len(args) {
 				flags = append(flags, args[i+1])
 				i++
 			}
@@ -125,6 +143,15 @@ func reorder(args []string) []string {
 		}
 	}
 	return append(flags, pos...)
+}
+
+// valueFlag reports whether a run flag takes a value.
+func valueFlag(a string) bool {
+	switch strings.TrimLeft(a, "-") {
+	case "o", "dump-matrix":
+		return true
+	}
+	return false
 }
 
 func kNOr(p *float64) string {

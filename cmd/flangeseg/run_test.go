@@ -99,7 +99,8 @@ func TestRunWritesResults(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := filepath.Join(dir, "out")
-	code, stdout, stderr := runCLI("run", model, "-o", out)
+	dump := filepath.Join(dir, "matrices")
+	code, stdout, stderr := runCLI("run", model, "-o", out, "--dump-matrix", dump)
 	if code != exitOK {
 		t.Fatalf("exit %d\n%s%s", code, stdout, stderr)
 	}
@@ -107,6 +108,11 @@ func TestRunWritesResults(t *testing.T) {
 		"Z_u.svg", "Z_u.png", "Fs_Z.svg", "Ms_Z.svg", "gap_Z.svg", "contact_force_Z.svg", "contact_pressure.svg"} {
 		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
 			t.Errorf("missing %s", f)
+		}
+	}
+	for _, f := range []string{"joint_first_tangent.matrix.mtx", "joint_first_tangent.rhs.mtx"} {
+		if _, err := os.Stat(filepath.Join(dump, f)); err != nil {
+			t.Errorf("--dump-matrix: missing %s", f)
 		}
 	}
 	bad := filepath.Join(dir, "bad.toml")

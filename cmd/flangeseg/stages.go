@@ -7,6 +7,7 @@ import (
 
 	"flangeseg/contact"
 	"flangeseg/fem"
+	"flangeseg/fem/sparse"
 )
 
 // historyRow is one converged state of the analysis.
@@ -46,16 +47,18 @@ type analysis struct {
 }
 
 type analyseOptions struct {
-	log      func(string)        // per-iteration log (--verbose), or nil
-	progress func(done, all int) // after each increment, or nil
-	keep     func(inc int) bool  // which increments to keep fields of
+	inspect  func(k *sparse.Matrix, rhs []float64) error // sees the first tangent (--dump-matrix)
+	log      func(string)                                // per-iteration log (--verbose), or nil
+	progress func(done, all int)                         // after each increment, or nil
+	keep     func(inc int) bool                          // which increments to keep fields of
 }
 
 // analyse runs the preload and tension stages. A failure to converge ends
 // the analysis but keeps every converged increment; it is reported in
 // analysis.failure, while setup errors are returned.
 func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
-	s, err := fem.NewSolver(g.model, g.pairs(), fem.NewtonOptions{Log: opt.log, ForceScale: g.der.DesignPreload, Tolerance: 1e-7})
+	s, err := fem.NewSolver(g.model, g.pairs(), fem.NewtonOptions{Log: opt.log, ForceScale: g.der.DesignPreload, Tolerance: 1e-7,
+		Inspect: opt.inspect})
 	if err != nil {
 		return nil, err
 	}
