@@ -141,3 +141,24 @@ func replaceKey(t *testing.T, data, line, with string) string {
 	t.Fatalf("line %q not in the model", line)
 	return ""
 }
+
+// mesh writes mesh.vtu and reports the regions and the element quality.
+func TestMeshCommand(t *testing.T) {
+	dir := t.TempDir()
+	model := filepath.Join(dir, "joint.toml")
+	if err := os.WriteFile(model, demoModels()[1].Data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, stdout, stderr := runCLI("mesh", model, "-o", dir)
+	if code != exitOK {
+		t.Fatalf("exit %d\n%s%s", code, stdout, stderr)
+	}
+	for _, want := range []string{"upper_flange_hole", "bolt_thread", "Jacobian ratio", "mesh.vtu"} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("output lacks %q:\n%s", want, stdout)
+		}
+	}
+	if _, err := os.Stat(filepath.Join(dir, "mesh.vtu")); err != nil {
+		t.Error(err)
+	}
+}
