@@ -162,3 +162,56 @@ func TestMeshCommand(t *testing.T) {
 		t.Error(err)
 	}
 }
+
+// The joint behaves as an L-flange does (facts of the trade, CHECKS.md,
+// common practice): before the face opens the bolt takes a small share of
+// Z; once the face has opened on the shell side dF_s/dZ rises towards, but
+// never clearly above, the lever ratio (a + b)/a, and a slope that never
+// exceeds 1 points to an error; the free edge stays in contact as the
+// prying pivot. CHECKS.md also words it as "after opening, 1 < dF_s/dZ";
+// with the opening taken at the shell-side corner (DESIGN.md) the slope
+// there is still about 0.01 and passes 1 only past decompression, gradually,
+// as the contact resultant moves out to the free edge, so the test checks
+// the facts' own statement: rising after opening, above 1 by the end,
+// never above 1.02·(a + b)/a.
+func TestJointBehaviour(t *testing.T) {
+	g, res := coarseDemo(t, func(s *Spec) { s.Load.Increments, s.Load.MaxDisplacement = 16, 1.6 })
+	rows := res.rows
+	f := figures(g, res)
+	if f.OpeningLoadKN == nil || f.DecompressionKN == nil {
+		t.Fatalf("opening %v, decompression %v: the face should open and decompress by Z = %.0f kN", f.OpeningLoadKN, f.DecompressionKN, rows[len(rows)-1].z/1e3)
+	}
+	lever := (g.spec.Flange.A + g.spec.Flange.B) / g.spec.Flange.A
+	prev := 0.0
+	for i := 1; i < len(rows); i++ {
+		a, b := rows[i-1], rows[i]
+		slope := (b.fs - a.fs) / (b.z - a.z)
+		if b.z/1e3 <= *f.OpeningLoadKN && (slope <= 0 || slope >= 0.2) {
+			t.Errorf("Z = %.0f kN, before opening: dF_s/dZ = %.3f, want a small share (0, 0.2)", b.z/1e3, slope)
+		}
+		if a.z/1e3 >= *f.OpeningLoadKN && slope < prev-1e-3 {
+			t.Errorf("Z = %.0f kN, after opening: dF_s/dZ fell from %.3f to %.3f", b.z/1e3, prev, slope)
+		}
+		if slope >= 1.02*lever {
+			t.Errorf("Z = %.0f kN: dF_s/dZ = %.3f above 1.02·(a + b)/a = %.3f", b.z/1e3, slope, 1.02*lever)
+		}
+		t.Logf("Z = %6.1f kN  F_s = %7.1f kN  dF_s/dZ = %.3f  gap at the corner %.4f mm", b.z/1e3, b.fs/1e3, slope, b.gapEdge)
+		prev = slope
+	}
+	if prev <= 1 {
+		t.Errorf("dF_s/dZ = %.3f at Z = %.0f kN, past decompression at %.0f kN: it should exceed 1", prev, rows[len(rows)-1].z/1e3, *f.DecompressionKN)
+	}
+	last := res.states[len(res.states)-1]
+	edge := 0.0
+	for _, r := range last.contacts["faces"] {
+		if r.Paired && r.X < -g.spec.Flange.A/2 {
+			edge = math.Max(edge, r.Pressure)
+		}
+	}
+	if edge <= 0 {
+		t.Error("the free edge lost contact: it should carry the prying force")
+	}
+	if last.row.gapEdge <= openGap {
+		t.Errorf("gap at the shell-side corner %.4f mm at the end: the face should be open there", last.row.gapEdge)
+	}
+}
