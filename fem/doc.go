@@ -1,8 +1,10 @@
 // Package fem is the finite-element core of flangeseg: element routines for
 // the x–z section (plane stress, plane strain, axisymmetric), the map from
-// nodal degrees of freedom to equations (supports, prescribed values and
-// rigid-edge constraints), assembly into the sparse matrices of fem/sparse,
-// loads, reactions and stress recovery.
+// nodal degrees of freedom to equations (supports, prescribed values,
+// rigid edges and ties), assembly into the sparse matrices of fem/sparse,
+// loads, reactions, section forces and stress recovery, and the Newton
+// solver with contact pairs, displacement-controlled ramps with step
+// cutting and the eigenstrain preload of a bolt slice.
 //
 // The two seams later capabilities plug into are material.Law (the response
 // of one integration point) and Kinematics (how nodal displacements become a
