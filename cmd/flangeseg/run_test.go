@@ -215,3 +215,44 @@ func TestJointBehaviour(t *testing.T) {
 		t.Errorf("gap at the shell-side corner %.4f mm at the end: the face should be open there", last.row.gapEdge)
 	}
 }
+
+// Mesh convergence on the demo joint (flange-segment issue): the bolt
+// force at a fixed segment force changes by less than 2 % from the medium
+// (default, 8 mm) to the fine mesh (5 mm), on the increase F_s − F_p that
+// the load adds as well as on F_s itself.
+func TestMeshConvergence(t *testing.T) {
+	if testing.Short() {
+		t.Skip("two full-size meshes")
+	}
+	const z = 300e3 // N, past opening, before decompression
+	increase := map[float64]float64{}
+	total := map[float64]float64{}
+	for _, size := range []float64{8, 5} {
+		spec, err := decodeSpec(demoModels()[0].Data)
+		if err != nil {
+			t.Fatal(err)
+		}
+		spec.Mesh.Size = size
+		spec.Load.Increments, spec.Load.MaxDisplacement = 8, 0.8
+		g, err := buildSegment(spec, spec.derive())
+		if err != nil {
+			t.Fatal(err)
+		}
+		res, err := g.analyse(analyseOptions{})
+		if err != nil || res.failure != nil {
+			t.Fatal(err, res.failure)
+		}
+		fs, ok := at(res.rows, z, func(r historyRow) float64 { return r.fs })
+		if !ok {
+			t.Fatalf("mesh %g mm: Z = %.0f kN not reached", size, z/1e3)
+		}
+		total[size], increase[size] = fs, fs-res.rows[0].fs
+		t.Logf("mesh %g mm: %d equations, F_s(%.0f kN) = %.2f kN, increase %.2f kN", size, res.equation, z/1e3, fs/1e3, increase[size]/1e3)
+	}
+	if e := math.Abs(total[5]-total[8]) / total[5]; e > 0.02 {
+		t.Errorf("F_s changes by %.2f %% from the medium to the fine mesh", 100*e)
+	}
+	if e := math.Abs(increase[5]-increase[8]) / increase[5]; e > 0.02 {
+		t.Errorf("F_s − F_p changes by %.2f %% from the medium to the fine mesh", 100*e)
+	}
+}
