@@ -1,5 +1,3 @@
-// Command flangeseg is a refined, nonlinear 2D finite-element check of one
-// bolt segment of a bolted ring-flange (L-flange) joint. See `flangeseg help`.
 package main
 
 import (
