@@ -10,6 +10,26 @@ import (
 	"flangeseg/mesh"
 )
 
+// pushModel sets up a displacement-driven contact case: the node sets in
+// symmetry hold x, bottom holds z, and top becomes a rigid edge about ref
+// (no rotation, length free) whose Axial master contactSolve moves.
+func pushModel(msh *mesh.Mesh, steel material.Elastic, cond material.Condition, symmetry []string, bottom, top string, ref mesh.Point) (*fem.Model, fem.RigidEdge, error) {
+	m, err := fem.NewModel(msh, map[string]material.Law{"steel": steel}, fem.Options{Condition: cond})
+	if err != nil {
+		return nil, fem.RigidEdge{}, err
+	}
+	for _, set := range symmetry {
+		if err := m.FixSet(set, fem.X, 0); err != nil {
+			return nil, fem.RigidEdge{}, err
+		}
+	}
+	if err := m.FixSet(bottom, fem.Z, 0); err != nil {
+		return nil, fem.RigidEdge{}, err
+	}
+	edge, err := m.AddRigidEdge(top, ref, fem.RigidEdgeOptions{FixRotation: true, LateralFree: true})
+	return m, edge, err
+}
+
 // contactSolve runs a displacement-controlled contact problem: the rigid
 // edge's Axial master is moved to w in a few increments.
 func contactSolve(m *fem.Model, pairs []fem.ContactPair, edge fem.RigidEdge, w float64, steps int) (*fem.Solver, error) {
@@ -46,19 +66,8 @@ func runContactPatch(o Options) (*Outcome, error) {
 		return nil, fmt.Errorf("contact patch: %w", err)
 	}
 	steel := material.Elastic{E: 210000, Nu: 0.3}
-	m, err := fem.NewModel(msh, map[string]material.Law{"steel": steel}, fem.Options{Condition: material.PlaneStress})
-	if err != nil {
-		return nil, err
-	}
-	for _, set := range []string{"lower_left", "upper_left"} {
-		if err := m.FixSet(set, fem.X, 0); err != nil {
-			return nil, err
-		}
-	}
-	if err := m.FixSet("lower_bottom", fem.Z, 0); err != nil {
-		return nil, err
-	}
-	edge, err := m.AddRigidEdge("upper_top", mesh.Point{X: width / 2, Z: height}, fem.RigidEdgeOptions{FixRotation: true, LateralFree: true})
+	m, edge, err := pushModel(msh, steel, material.PlaneStress, []string{"lower_left", "upper_left"},
+		"lower_bottom", "upper_top", mesh.Point{X: width / 2, Z: height})
 	if err != nil {
 		return nil, err
 	}

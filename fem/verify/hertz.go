@@ -27,19 +27,8 @@ func runHertz(o Options) (*Outcome, error) {
 	if err != nil {
 		return nil, fmt.Errorf("Hertz: %w", err)
 	}
-	m, err := fem.NewModel(msh, map[string]material.Law{"steel": steel}, fem.Options{Condition: material.PlaneStrain})
-	if err != nil {
-		return nil, err
-	}
-	for _, set := range []string{"cylinder_axis", "block_axis"} {
-		if err := m.FixSet(set, fem.X, 0); err != nil {
-			return nil, err
-		}
-	}
-	if err := m.FixSet("block_bottom", fem.Z, 0); err != nil {
-		return nil, err
-	}
-	edge, err := m.AddRigidEdge("cylinder_top", mesh.Point{X: 0, Z: radius}, fem.RigidEdgeOptions{FixRotation: true, LateralFree: true})
+	m, edge, err := pushModel(msh, steel, material.PlaneStrain, []string{"cylinder_axis", "block_axis"},
+		"block_bottom", "cylinder_top", mesh.Point{X: 0, Z: radius})
 	if err != nil {
 		return nil, err
 	}
