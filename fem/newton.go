@@ -95,6 +95,10 @@ type Solver struct {
 	// increment being solved.
 	before                []float64
 	lastStep, pendingStep float64
+	// forcesValid: fint holds the internal and contact forces at u (set by
+	// assemble, cleared whenever u changes), so reactions and section
+	// forces after a solve need no second assembly.
+	forcesValid bool
 }
 
 // NewSolver numbers the model and builds the first sparsity pattern.
@@ -132,6 +136,7 @@ func (s *Solver) Current() []contact.Point {
 }
 
 func (s *Solver) applyPrescribed() {
+	s.forcesValid = false
 	for d, f := range s.m.fixed {
 		if f {
 			s.u[d] = s.m.value[d]
@@ -243,7 +248,16 @@ func (s *Solver) assemble(tangent bool) error {
 		}
 	}
 	s.Timing.Contact += time.Since(mid)
+	s.forcesValid = true
 	return nil
+}
+
+// forces makes fint hold the forces at the current u.
+func (s *Solver) forces() error {
+	if s.forcesValid {
+		return nil
+	}
+	return s.assemble(false)
 }
 
 func (s *Solver) addContact(dofs []int, f, kc []float64, k *sparse.Matrix) error {
@@ -353,6 +367,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		s.Timing.Factorization += time.Since(start)
 		s.Timing.Factorizations++
 		s.m.update(s.u, du)
+		s.forcesValid = false
 	}
 }
 
@@ -372,6 +387,7 @@ func (s *Solver) predict(step float64) {
 		}
 	}
 	s.m.expand(s.u)
+	s.forcesValid = false
 }
 
 // Commit accepts the current state as converged.
@@ -392,6 +408,7 @@ func (s *Solver) Commit() {
 // Revert returns to the last converged state.
 func (s *Solver) Revert() {
 	copy(s.u, s.done)
+	s.forcesValid = false
 	for _, p := range s.pairs {
 		p.Revert()
 	}
@@ -399,10 +416,11 @@ func (s *Solver) Revert() {
 }
 
 // Reaction is the generalised force the constraints exert at dof d in the
-// current state (after Equilibrium): a rigid edge's master collects its
-// nodes' forces.
+// current state (after Equilibrium; a model change since then, such as a new
+// eigenstrain, needs an Equilibrium first): a rigid edge's master collects
+// its nodes' forces.
 func (s *Solver) Reaction(d Dof) (float64, error) {
-	if err := s.assemble(false); err != nil {
+	if err := s.forces(); err != nil {
 		return 0, err
 	}
 	fext, err := s.m.externalForces()
@@ -423,7 +441,7 @@ func (s *Solver) NodeSetReaction(set string) (rx, rz float64, err error) {
 	if !ok {
 		return 0, 0, fmt.Errorf("fem: node set %q does not exist", set)
 	}
-	if err := s.assemble(false); err != nil {
+	if err := s.forces(); err != nil {
 		return 0, 0, err
 	}
 	fext, err := s.m.externalForces()
@@ -474,6 +492,7 @@ func (s *Solver) SectionForce(elems []int, nodes []int, x0 float64) (normal, she
 // Points returns the integration point results in the current state.
 func (s *Solver) Points() ([][]PointResult, error) {
 	pts := s.m.newPointResults()
+	s.forcesValid = false // fint is used for element forces alone here
 	if err := s.a.assemble(s.u, s.fint, nil, pts); err != nil {
 		return nil, err
 	}
