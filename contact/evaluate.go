@@ -30,9 +30,15 @@ func (p *Pair) Evaluate(cur []Point, tangent bool, add func(dofs []int, f, k []f
 	}
 	var acc accumulator
 	acc.tangent = tangent
+	if tangent {
+		p.couplings = p.couplings[:0]
+	}
 	flush := func() error {
 		if len(acc.nodes) == 0 {
 			return nil
+		}
+		if acc.coupling != nil {
+			p.couplings = append(p.couplings, Block{Dofs: nodeDofs(acc.nodes), K: acc.coupling})
 		}
 		dofs, f, k := acc.hand(p.set.SymmetricTangent)
 		if err := add(dofs, f, k); err != nil {
@@ -80,7 +86,7 @@ func (p *Pair) Couplings(cur []Point) [][]int {
 	for i := range p.points {
 		st := &p.working[i]
 		xs, _ := p.slavePoint(i, cur)
-		_, seg, ok := p.project(xs, cur, st.hint)
+		_, seg, ok := p.facing(i, xs, cur, st.hint)
 		if !ok {
 			continue
 		}
@@ -150,6 +156,9 @@ type accumulator struct {
 	tangent bool
 	nodes   []int
 	f, k    []float64
+	// coupling collects the friction coupling of sliding points that
+	// NoSlidingStiffness keeps out of k; nil until a point needs it.
+	coupling []float64
 	// Work vectors over the group's dofs.
 	gg, ga, gn, gs, gna, gta, gnd []float64
 	// Shape coefficients over the group's nodes.
@@ -160,7 +169,7 @@ func (a *accumulator) start(nodes []int) {
 	a.nodes = nodes
 	nd := 2 * len(nodes)
 	a.f = make([]float64, nd)
-	a.k = nil
+	a.k, a.coupling = nil, nil
 	if a.tangent {
 		a.k = make([]float64, nd*nd)
 	}
@@ -187,6 +196,22 @@ func (a *accumulator) hand(symmetric bool) (dofs []int, f, k []float64) {
 	a.nodes, a.f, a.k = nil, nil, nil
 	return dofs, f, k
 }
+
+// Block is a dense coupling over a group of dofs, row-major
+// len(Dofs)×len(Dofs), not symmetric.
+type Block struct {
+	Dofs []int
+	K    []float64
+}
+
+// SlidingCouplings returns the friction coupling −μ·σ·ε_N·∂s⊗∂g of the
+// points that slid in the last Evaluate with a tangent, which
+// NoSlidingStiffness leaves out of the tangent it hands out: a solver may
+// add it to its products with the tangent (an iterative solve
+// preconditioned by the factorized symmetric tangent) and keep Newton's
+// method quadratic while points slide. Nil when no point slid or without
+// NoSlidingStiffness. The blocks stay valid until the next Evaluate.
+func (p *Pair) SlidingCouplings() []Block { return p.couplings }
 
 func resize(v []float64, n int) []float64 {
 	if cap(v) < n {
@@ -288,7 +313,7 @@ func (p *Pair) addNormal(a *accumulator, w float64, e *pointEval) {
 		return
 	}
 	outer(a.k, w*p.set.Penalty, a.gg, a.gg)
-	if p.set.FrozenGeometry {
+	if p.set.FrozenGeometry || p.set.SmallSliding {
 		return
 	}
 	a.coefficients(a.cam, seg, m.r, true)
@@ -313,7 +338,10 @@ func (p *Pair) addTangential(a *accumulator, w float64, e *pointEval) {
 	nd, td := an.n.dot(d), an.t.dot(d)
 	contract(a.gna, an.n, a.caa, nil)
 	contract(a.gs, an.t, a.cs, a.ca)
-	axpy(a.gs, nd/an.length, a.gna)
+	if !p.set.SmallSliding {
+		// the anchor's tangent turns with the master
+		axpy(a.gs, nd/an.length, a.gna)
+	}
 	axpy(a.f, w*e.tT, a.gs)
 	if a.k == nil {
 		return
@@ -323,8 +351,13 @@ func (p *Pair) addTangential(a *accumulator, w float64, e *pointEval) {
 		outer(a.k, w*p.set.StickPenalty, a.gs, a.gs)
 	case !p.set.NoSlidingStiffness:
 		outer(a.k, -w*p.set.Friction*e.sign*p.set.Penalty, a.gs, a.gg)
+	default:
+		if a.coupling == nil {
+			a.coupling = make([]float64, len(a.k))
+		}
+		outer(a.coupling, -w*p.set.Friction*e.sign*p.set.Penalty, a.gs, a.gg)
 	}
-	if p.set.FrozenGeometry {
+	if p.set.FrozenGeometry || p.set.SmallSliding {
 		return
 	}
 	contract(a.gta, an.t, a.caa, nil)

@@ -36,6 +36,43 @@ func (p *Pair) project(x vec, cur []Point, hint int) (curvePoint, int, bool) {
 	return p.globalSearch(x, cur)
 }
 
+// facing returns the master point that slave point i at x is measured
+// against: its closest-point projection, or with SmallSliding the master
+// point it faced in the reference configuration.
+func (p *Pair) facing(i int, x vec, cur []Point, hint int) (curvePoint, int, bool) {
+	if p.set.SmallSliding {
+		return p.homePoint(p.points[i].home, cur)
+	}
+	return p.project(x, cur, hint)
+}
+
+// homePoint is the master point at a fixed location for SmallSliding: at
+// its current position, with the reference configuration's tangent,
+// normal and length element.
+func (p *Pair) homePoint(at location, cur []Point) (curvePoint, int, bool) {
+	if at.seg < 0 {
+		return curvePoint{}, -1, false
+	}
+	return p.masterAt(at, cur), at.seg, true
+}
+
+// masterAt evaluates the master surface at a location: in the current
+// configuration, or with SmallSliding at the current position along the
+// reference geometry.
+func (p *Pair) masterAt(at location, cur []Point) curvePoint {
+	nodes := p.master[at.seg]
+	if !p.set.SmallSliding {
+		return evalCurve(nodes, cur, at.r)
+	}
+	c := evalCurve(nodes, p.ref, at.r)
+	n, _, _ := shape(len(nodes), at.r)
+	c.x = vec{}
+	for a, nd := range nodes {
+		c.x = c.x.add(nodeVec(cur, nd).scale(n[a]))
+	}
+	return c
+}
+
 // nearest projects x onto each of the segments and keeps the nearest valid
 // projection closer than limit (the first one on a tie).
 func (p *Pair) nearest(x vec, cur []Point, segs []int, limit float64) (curvePoint, int, bool) {
@@ -147,14 +184,14 @@ func (e *pointEval) frictional() bool {
 func (p *Pair) evalPoint(i int, cur []Point, st *pointState) pointEval {
 	e := pointEval{status: unpaired, seg: -1, keep: nowhere}
 	e.xs, _ = p.slavePoint(i, cur)
-	c, seg, ok := p.project(e.xs, cur, st.hint)
+	c, seg, ok := p.facing(i, e.xs, cur, st.hint)
 	if !ok {
 		return e
 	}
 	e.seg, e.m = seg, c
 	e.gGeo = e.xs.sub(c.x).dot(c.n)
 	e.g = e.gGeo + p.points[i].gap0
-	e.keep = location{seg: seg, r: c.r}
+	e.keep = p.slidAnchor(&e, cur, 0)
 	e.status = open
 	trial := st.lambdaN - p.set.Penalty*e.g
 	if trial < 0 {
@@ -174,7 +211,7 @@ func (p *Pair) evalPoint(i int, cur []Point, st *pointState) pointEval {
 // returnMap computes the tangential traction of a pressed point.
 func (p *Pair) returnMap(e *pointEval, cur []Point, st *pointState) {
 	e.anchor = st.anchor
-	e.a = evalCurve(p.master[st.anchor.seg], cur, st.anchor.r)
+	e.a = p.masterAt(st.anchor, cur)
 	e.s = e.a.t.dot(e.xs.sub(e.a.x))
 	tr := st.lambdaT + p.set.StickPenalty*e.s
 	limit := p.set.Friction * e.pN
@@ -193,8 +230,10 @@ func (p *Pair) returnMap(e *pointEval, cur []Point, st *pointState) {
 // ends the anchor stays a point of the same segment's extension.
 func (p *Pair) slidAnchor(e *pointEval, cur []Point, s float64) location {
 	nodes := p.master[e.seg]
-	r := e.m.r - s/e.m.length
-	if len(nodes) == 2 {
+	// e.m is the closest point (t·(x_s − x_m) = 0) or, with SmallSliding,
+	// the fixed home point, which the slave point may have slid past.
+	r := e.m.r + (e.m.t.dot(e.xs.sub(e.m.x))-s)/e.m.length
+	if len(nodes) == 2 || p.set.SmallSliding {
 		return location{seg: e.seg, r: r}
 	}
 	for it := 0; it < projectIters; it++ {

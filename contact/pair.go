@@ -37,9 +37,11 @@ type Settings struct {
 	// NoSlidingStiffness leaves the friction coupling −μ·σ·ε_N·∂s⊗∂g of
 	// sliding points out of the tangent. Its symmetric part is indefinite,
 	// so with it a symmetric tangent can stop a Cholesky factorization;
-	// without it, and with FrozenGeometry, the tangent stays positive
-	// semi-definite. The forces are untouched: the equilibrium is the same,
-	// reached with linear convergence while points slide.
+	// without it, and with FrozenGeometry or SmallSliding, the tangent
+	// stays positive semi-definite. The forces are untouched: the
+	// equilibrium is the same. The coupling left out is handed separately
+	// by SlidingCouplings; a solver that ignores it converges linearly
+	// while points slide.
 	NoSlidingStiffness bool
 
 	// FrozenGeometry leaves the geometric terms out of the tangent: those
@@ -57,6 +59,19 @@ type Settings struct {
 	// stiffness of the bodies, which for flange faces under service
 	// pressures is small.
 	FrozenGeometry bool
+
+	// SmallSliding measures gap and slip along the normal and tangent of
+	// the reference configuration, against the master point that each
+	// slave point faces there: the contact of small-deformation analysis
+	// (Wriggers 2006, the small-sliding case). Both are then linear in the
+	// displacements and the tangent is exact, geometric terms being nil
+	// by construction, so Newton's method converges in one iteration once
+	// the contact status settles. Slip and rotation must stay small: a
+	// slave point keeps its master segment, extended past its ends if it
+	// slides beyond them. Without it, contact is searched and measured in
+	// the current configuration (finite sliding), which large-deformation
+	// analysis needs.
+	SmallSliding bool
 }
 
 // maxPoints bounds the Gauss rule per slave segment.
@@ -83,10 +98,14 @@ type Pair struct {
 	// neighbours lists, per master segment, the segments that share an end
 	// node with it: the second try of the local search.
 	neighbours [][]int
+	// ref holds the reference coordinates of all nodes (SmallSliding
+	// measures along the reference normals).
+	ref []Point
 
 	committed, working []pointState
 	trial              []trialState
 	hasTrial           bool
+	couplings          []Block // SlidingCouplings of the last tangent evaluation
 }
 
 // gaussPoint is an integration point of the slave surface.
@@ -97,6 +116,7 @@ type gaussPoint struct {
 	area float64    // weight × reference length element × Gauss weight, mm²
 	ref  Point      // reference position
 	gap0 float64    // initial gap, mm
+	home location   // master point faced in the reference configuration
 }
 
 // slaveNode carries a slave node's share of the Gauss points for the
@@ -105,6 +125,7 @@ type slaveNode struct {
 	node   int
 	ref    Point     // reference position
 	gap0   float64   // initial gap at the node, mm
+	home   location  // master point faced in the reference configuration
 	points []int     // Gauss points that touch the node
 	share  []float64 // their non-negative recovery weights × area
 }
@@ -159,7 +180,7 @@ func NewPair(name string, slave, master Surface, ref []Point, s Settings,
 	if err != nil {
 		return nil, fmt.Errorf("contact: pair %q: %w", name, err)
 	}
-	p := &Pair{name: name, set: set, maxNode: -1}
+	p := &Pair{name: name, set: set, maxNode: -1, ref: slices.Clone(ref)}
 	if p.slave, err = p.checkSurface(slave, ref); err != nil {
 		return nil, fmt.Errorf("contact: pair %q: slave surface: %w", name, err)
 	}
@@ -447,9 +468,11 @@ func (p *Pair) initialState(ref []Point) error {
 	for i := range p.points {
 		st := pointState{anchor: nowhere, hint: -1}
 		xs, ts := p.slavePoint(i, ref)
+		p.points[i].home = nowhere
 		if c, seg, ok := p.project(xs, ref, -1); ok {
 			st.anchor = location{seg: seg, r: c.r}
 			st.hint = seg
+			p.points[i].home = st.anchor
 			if ts.right().dot(c.n) < 0 {
 				facing++
 			} else {
@@ -459,6 +482,13 @@ func (p *Pair) initialState(ref []Point) error {
 		p.committed[i] = st
 	}
 	copy(p.working, p.committed)
+	for k := range p.nodes {
+		sn := &p.nodes[k]
+		sn.home = nowhere
+		if c, seg, ok := p.project(toVec(ref[sn.node]), ref, -1); ok {
+			sn.home = location{seg: seg, r: c.r}
+		}
+	}
 	if same > 0 && facing == 0 {
 		return errors.New("the slave and master surfaces face the same way: the body must lie to the left of each segment's first-to-second node direction")
 	}

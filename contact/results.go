@@ -52,7 +52,11 @@ func (p *Pair) NodeResults(cur []Point) []NodeResult {
 			hint = p.working[sn.points[0]].hint
 		}
 		x := nodeVec(cur, sn.node)
-		if c, _, ok := p.project(x, cur, hint); ok {
+		c, _, ok := p.project(x, cur, hint)
+		if p.set.SmallSliding {
+			c, _, ok = p.homePoint(sn.home, cur)
+		}
+		if ok {
 			r.Gap, r.Paired = x.sub(c.x).dot(c.n)+sn.gap0, true
 		}
 		out[k] = r

@@ -33,19 +33,23 @@ func (p *Pair) Augment(cur []Point) (maxPenetration float64, again bool) {
 		e := &evals[i]
 		st := &p.working[i]
 		proj := location{seg: e.seg, r: e.m.r}
+		here := e.keep // the master point the slave point is at (s = 0)
+		if e.frictional() {
+			here = p.slidAnchor(e, cur, 0)
+		}
 		switch e.status {
 		case unpaired:
 			st.lambdaN, st.lambdaT = 0, 0
 		case open:
-			st.lambdaN, st.lambdaT, st.anchor = 0, 0, proj
+			st.lambdaN, st.lambdaT, st.anchor = 0, 0, here
 		case pressed:
-			st.lambdaN, st.anchor = e.pN, proj
+			st.lambdaN, st.anchor = e.pN, here
 		case sticking:
 			st.lambdaN, st.lambdaT = e.pN, e.tT
 		case sliding:
 			// With λ_T = t_T the slid anchor sits where s = 0: at the
-			// projection itself.
-			st.lambdaN, st.lambdaT, st.anchor = e.pN, e.tT, proj
+			// projection itself (or, sliding small, where it now is).
+			st.lambdaN, st.lambdaT, st.anchor = e.pN, e.tT, here
 		}
 		keep := st.anchor
 		if e.status == unpaired {
