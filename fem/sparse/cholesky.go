@@ -533,9 +533,7 @@ func (c *Cholesky) solve(dst, b, y []float64) {
 			rj := L[j*k : j*k+j+1]
 			x[j] = (x[j] - dot(rj[:j], x[:j])) / rj[j]
 		}
-		for a, i := range rows {
-			y[i] -= dot(L[(k+a)*k:(k+a+1)*k], x)
-		}
+		subtractRows(y, rows, L[k*k:], x)
 	}
 	for t := s.nsuper - 1; t >= 0; t-- {
 		f, l := s.super[t], s.super[t+1]
@@ -543,13 +541,7 @@ func (c *Cholesky) solve(dst, b, y []float64) {
 		rows := s.rows[s.rowPtr[t]+k : s.rowPtr[t+1]]
 		L := c.lx[s.lPtr[t]:s.lPtr[t+1]]
 		x := y[f:l]
-		for a, i := range rows {
-			yi := y[i]
-			ra := L[(k+a)*k : (k+a+1)*k]
-			for j := range x {
-				x[j] -= ra[j] * yi
-			}
-		}
+		subtractColumns(x, L[k*k:], rows, y)
 		for j := k - 1; j >= 0; j-- {
 			rj := L[j*k : j*k+j+1]
 			x[j] /= rj[j]
@@ -561,6 +553,59 @@ func (c *Cholesky) solve(dst, b, y []float64) {
 	}
 	for k, i := range s.perm {
 		dst[i] = y[k]
+	}
+}
+
+// subtractRows does y[rows[a]] −= B[a,:]·x for the row-major block B
+// (len(rows)×len(x)), four rows at a time: the solves are bound by the
+// latency of one running sum per row, not by the arithmetic.
+func subtractRows(y []float64, rows []int32, B, x []float64) {
+	k := len(x)
+	a := 0
+	for ; a+4 <= len(rows); a += 4 {
+		r0 := B[a*k : a*k+k]
+		r1 := B[(a+1)*k : (a+1)*k+k]
+		r2 := B[(a+2)*k : (a+2)*k+k]
+		r3 := B[(a+3)*k : (a+3)*k+k]
+		var s0, s1, s2, s3 float64
+		for j, v := range x {
+			s0 += r0[j] * v
+			s1 += r1[j] * v
+			s2 += r2[j] * v
+			s3 += r3[j] * v
+		}
+		y[rows[a]] -= s0
+		y[rows[a+1]] -= s1
+		y[rows[a+2]] -= s2
+		y[rows[a+3]] -= s3
+	}
+	for ; a < len(rows); a++ {
+		y[rows[a]] -= dot(B[a*k:a*k+k], x)
+	}
+}
+
+// subtractColumns does x −= Bᵀ·y[rows] for the row-major block B
+// (len(rows)×len(x)), four rows at a time so that x is read and written
+// once per four.
+func subtractColumns(x, B []float64, rows []int32, y []float64) {
+	k := len(x)
+	a := 0
+	for ; a+4 <= len(rows); a += 4 {
+		r0 := B[a*k : a*k+k]
+		r1 := B[(a+1)*k : (a+1)*k+k]
+		r2 := B[(a+2)*k : (a+2)*k+k]
+		r3 := B[(a+3)*k : (a+3)*k+k]
+		y0, y1, y2, y3 := y[rows[a]], y[rows[a+1]], y[rows[a+2]], y[rows[a+3]]
+		for j := range x {
+			x[j] -= r0[j]*y0 + r1[j]*y1 + r2[j]*y2 + r3[j]*y3
+		}
+	}
+	for ; a < len(rows); a++ {
+		ya := y[rows[a]]
+		ra := B[a*k : a*k+k]
+		for j := range x {
+			x[j] -= ra[j] * ya
+		}
 	}
 }
 
