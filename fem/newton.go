@@ -22,6 +22,9 @@ type ContactPair interface {
 	Augment(cur []contact.Point) (maxPenetration float64, again bool)
 	Commit()
 	Revert()
+	// SlidingCouplings is the part of the tangent left out of Evaluate's
+	// (see contact.Settings.NoSlidingStiffness), nil when none.
+	SlidingCouplings() []contact.Block
 }
 
 // NewtonOptions tune the equilibrium iterations.
@@ -58,6 +61,10 @@ func (o *NewtonOptions) defaults() {
 type Timing struct {
 	Assembly, Contact, Factorization, Analysis time.Duration
 	Iterations, Factorizations, Analyses       int
+	// Solve is the time of the triangular solves and GMRES steps
+	// (Factorization excluded); KrylovSteps counts the GMRES steps.
+	Solve       time.Duration
+	KrylovSteps int
 }
 
 // NotConvergedError reports an equilibrium solve that failed; the solver
@@ -99,6 +106,20 @@ type Solver struct {
 	// assemble, cleared whenever u changes), so reactions and section
 	// forces after a solve need no second assembly.
 	forcesValid bool
+	// couplings: the sliding-friction couplings of the last tangent, in
+	// equation space, which the symmetric matrix k does not hold.
+	couplings []coupling
+	// factorOK: chol holds a factorization for the current pattern;
+	// factorStale: of an earlier tangent than the one in k.
+	factorOK, factorStale bool
+	// coupled: the Newton steps include the sliding couplings.
+	coupled bool
+}
+
+// coupling is a dense unsymmetric block over equations (−1: none).
+type coupling struct {
+	eqs []int
+	k   []float64
 }
 
 // NewSolver numbers the model and builds the first sparsity pattern.
@@ -220,6 +241,7 @@ func (s *Solver) rebuild() error {
 		return fmt.Errorf("fem: ordering: %w", err)
 	}
 	s.k, s.sym = k, sym
+	s.factorOK = false
 	s.Timing.Analysis += time.Since(start)
 	s.Timing.Analyses++
 	return nil
@@ -239,12 +261,22 @@ func (s *Solver) assemble(tangent bool) error {
 	mid := time.Now()
 	s.Timing.Assembly += mid.Sub(start)
 	s.updateCurrent()
+	if tangent {
+		s.couplings = s.couplings[:0]
+		s.factorStale = true
+	}
 	for _, p := range s.pairs {
 		err := p.Evaluate(s.cur, tangent, func(dofs []int, f, kc []float64) error {
 			return s.addContact(dofs, f, kc, k)
 		})
 		if err != nil {
 			return fmt.Errorf("fem: contact %q: %w", p.Name(), err)
+		}
+		if tangent {
+			for _, b := range p.SlidingCouplings() {
+				eqs, kb := s.toEquations(b.Dofs, b.K)
+				s.couplings = append(s.couplings, coupling{eqs: slices.Clone(eqs), k: slices.Clone(kb)})
+			}
 		}
 	}
 	s.Timing.Contact += time.Since(mid)
@@ -267,6 +299,12 @@ func (s *Solver) addContact(dofs []int, f, kc []float64, k *sparse.Matrix) error
 	if k == nil || kc == nil {
 		return nil
 	}
+	return k.AddDense(s.toEquations(dofs, kc))
+}
+
+// toEquations maps a dense block over node dofs to the equations, folding
+// tied dofs onto their masters; the slices may be the assembler's buffers.
+func (s *Solver) toEquations(dofs []int, kc []float64) ([]int, []float64) {
 	ds := make([]Dof, len(dofs))
 	tied := false
 	for i, d := range dofs {
@@ -278,14 +316,14 @@ func (s *Solver) addContact(dofs []int, f, kc []float64, k *sparse.Matrix) error
 		for _, d := range dofs {
 			idx = append(idx, s.m.eq[d])
 		}
-		return k.AddDense(idx, kc)
+		return idx, kc
 	}
 	indep, t := s.m.tieMap(ds)
 	em := elementMap{dofs: ds, indep: indep, t: t}
 	for _, d := range indep {
 		idx = append(idx, s.m.eq[d])
 	}
-	return k.AddDense(idx, s.a.transform(&em, kc))
+	return idx, s.a.transform(&em, kc)
 }
 
 // Equilibrium iterates to equilibrium at the model's current prescribed
@@ -325,6 +363,19 @@ func (s *Solver) Equilibrium() (int, error) {
 
 func (s *Solver) newton(fext []float64) (int, error) {
 	du := make([]float64, s.m.nEq)
+	// Contact makes the residual piecewise smooth: a point on the edge of
+	// the contact zone or on the stick–slip boundary changes status with
+	// the step, and Newton's method can fall into a cycle between states.
+	// Two safeguards: after coupledIterations the sliding-friction
+	// couplings are left out, so the steps come from a symmetric positive
+	// definite tangent, which contract steadily, if only linearly; and a
+	// step that leaves the residual about where it was, or after that
+	// switch any larger, is halved (up to four times) before the next step
+	// is taken. (Halving every step that raises the residual would also
+	// halve the first steps after contact closes, which rightly overshoot.)
+	prev, step := math.Inf(1), 1.0
+	last := make([]float64, len(s.u))
+	s.coupled = true
 	for it := 1; ; it++ {
 		if err := s.ensurePattern(); err != nil {
 			return it, err
@@ -346,6 +397,17 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		if rel <= s.opt.Tolerance {
 			return it - 1, nil
 		}
+		if it > coupledIterations {
+			s.coupled = false
+		}
+		stuck := math.Abs(rel/prev-1) < 0.05 || (!s.coupled && rel > prev)
+		if stuck && step > 1.0/16 {
+			step /= 2
+			s.retreat(last, du, step)
+			continue
+		}
+		prev, step = rel, 1
+		copy(last, s.u)
 		if math.IsNaN(rel) || it > s.opt.MaxIterations {
 			return it - 1, &NotConvergedError{Iterations: it - 1, Residual: rel, Reason: "the residual does not fall below the tolerance"}
 		}
@@ -357,18 +419,103 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			}
 		}
 		start := time.Now()
-		if err := s.chol.Factorize(s.sym, s.k); err != nil {
-			s.Timing.Factorization += time.Since(start)
-			return it, s.m.factorError(err)
-		}
-		if err := s.chol.SolveVecTo(du, r); err != nil {
+		err := s.direction(du, r)
+		s.Timing.Solve += time.Since(start)
+		if err != nil {
 			return it, err
 		}
-		s.Timing.Factorization += time.Since(start)
-		s.Timing.Factorizations++
 		s.m.update(s.u, du)
 		s.forcesValid = false
 	}
+}
+
+// retreat sets u to the state before the last step plus the fraction step
+// of it.
+func (s *Solver) retreat(before, du []float64, step float64) {
+	copy(s.u, before)
+	scaled := make([]float64, len(du))
+	for i, v := range du {
+		scaled[i] = step * v
+	}
+	s.m.update(s.u, scaled)
+	s.forcesValid = false
+}
+
+// direction solves the Newton equations K·du = r. The factorization of an
+// earlier tangent stays in use as long as it serves: GMRES on the current
+// tangent, preconditioned by it, needs only a few products when the
+// tangent has changed little (an elastic increment, a few contact points
+// changing status), and a factorization costs tens of such products.
+// Sliding friction adds couplings that no symmetric factorization holds,
+// so while points slide the solve is always GMRES.
+func (s *Solver) direction(du, r []float64) error {
+	couplings := len(s.couplings) > 0 && s.coupled
+	if s.factorOK && !s.factorStale && !couplings {
+		return s.chol.SolveVecTo(du, r)
+	}
+	if s.factorOK {
+		steps, rel, err := gmres(s.mulTangent, s.chol.SolveVecTo, r, du, krylovTolerance, krylovSteps, krylovSteps)
+		s.Timing.KrylovSteps += steps
+		if err == nil && rel <= krylovTolerance {
+			if steps > krylovSteps/2 {
+				s.factorOK = false // cheaper to factorize next time
+			}
+			return nil
+		}
+	}
+	start := time.Now()
+	err := s.chol.Factorize(s.sym, s.k)
+	s.Timing.Factorization += time.Since(start)
+	s.Timing.Solve -= time.Since(start)
+	if err != nil {
+		s.factorOK = false
+		return s.m.factorError(err)
+	}
+	s.Timing.Factorizations++
+	s.factorOK, s.factorStale = true, false
+	if !couplings {
+		return s.chol.SolveVecTo(du, r)
+	}
+	steps, _, err := gmres(s.mulTangent, s.chol.SolveVecTo, r, du, krylovTolerance, 30, 4*krylovSteps)
+	s.Timing.KrylovSteps += steps
+	return err
+}
+
+// The inner solve's relative residual: far below the nonlinear residual's
+// tolerance relative to the first residual, so the inexact Newton steps
+// converge as exact ones would; and the GMRES steps allowed with an old
+// factorization before a new one is made.
+const (
+	krylovTolerance = 1e-6
+	krylovSteps     = 12
+	// coupledIterations: Newton iterations of one solve with the full
+	// tangent before the sliding couplings are dropped.
+	coupledIterations = 8
+)
+
+// mulTangent is dst = K·v for the full current tangent: the symmetric
+// matrix plus the sliding-friction couplings.
+func (s *Solver) mulTangent(dst, v []float64) error {
+	s.k.MulVecTo(dst, v)
+	if !s.coupled {
+		return nil
+	}
+	for _, c := range s.couplings {
+		n := len(c.eqs)
+		for i, ei := range c.eqs {
+			if ei < 0 {
+				continue
+			}
+			sum := 0.0
+			for j, ej := range c.eqs {
+				if ej >= 0 {
+					sum += c.k[i*n+j] * v[ej]
+				}
+			}
+			dst[ei] += sum
+		}
+	}
+	return nil
 }
 
 // predict starts the next increment of a ramp from the last converged
