@@ -259,8 +259,12 @@ func (g *segment) contacts() error {
 	// A penalty well above the stiffness of the finest elements; the
 	// augmented-Lagrangian updates then bring the penetration below 1 µm.
 	g.penalty = 10 * g.shellE / (s.Mesh.Size * s.Mesh.Refine)
+	// Small-deformation contact (the analysis is small-strain): gap and
+	// slip along the reference geometry, exact tangent. The sliding
+	// friction coupling goes beside the symmetric tangent, for the
+	// solver's GMRES steps.
 	set := contact.Settings{Penalty: g.penalty, Friction: s.Contact.Friction, Tolerance: 1e-3,
-		SymmetricTangent: true, FrozenGeometry: true, NoSlidingStiffness: true}
+		SymmetricTangent: true, SmallSliding: true, NoSlidingStiffness: true}
 	stripWidth := func(x, _ float64) float64 {
 		if math.Abs(x) < s.Bolt.Hole/2 {
 			return d.HoleBandStrip

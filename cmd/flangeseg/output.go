@@ -73,6 +73,8 @@ type solverSummary struct {
 	AssemblySeconds    float64 `json:"assembly_s"`
 	ContactSeconds     float64 `json:"contact_s"`
 	FactorSeconds      float64 `json:"factorization_s"`
+	SolveSeconds       float64 `json:"solve_s"`
+	KrylovSteps        int     `json:"krylov_steps"`
 	AnalysisSeconds    float64 `json:"ordering_s"`
 	PenaltyMPaPerMM    float64 `json:"contact_penalty_MPa_per_mm"`
 	PreloadSolves      int     `json:"preload_solves"`
@@ -89,6 +91,7 @@ func makeSummary(path string, g *segment, res *analysis) summary {
 		Solver: solverSummary{Increments: len(res.rows) - 1, NewtonIterations: res.timing.Iterations,
 			Factorizations: res.timing.Factorizations, AssemblySeconds: res.timing.Assembly.Seconds(),
 			ContactSeconds: res.timing.Contact.Seconds(), FactorSeconds: res.timing.Factorization.Seconds(),
+			SolveSeconds: res.timing.Solve.Seconds(), KrylovSteps: res.timing.KrylovSteps,
 			AnalysisSeconds: res.timing.Analysis.Seconds(), PenaltyMPaPerMM: g.penalty,
 			PreloadSolves: res.preload.Iterations, FieldStatesWritten: len(res.states)},
 	}
