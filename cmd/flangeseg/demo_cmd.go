@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"sync"
 	"text/tabwriter"
 )
 
@@ -46,22 +47,64 @@ Flags:
 		}
 		return exitOK
 	}
-	var sums []summary
-	for _, m := range models {
+	specs := make([]*Spec, len(models))
+	total := 0
+	for i, m := range models {
 		spec, err := decodeSpec(m.Data)
 		if err != nil {
 			fmt.Fprintf(stderr, "demo %s: %v\n", m.Name, err)
 			return exitBadInput
 		}
-		dir := filepath.Join(*outDir, m.Name)
-		var out bytes.Buffer
-		code := runModel(spec, m.Name+".toml", dir, runFlags{verbose: *verbose}, &out, stderr)
-		stdout.Write(out.Bytes())
-		fmt.Fprintln(stdout)
-		if code != exitOK {
-			return code
+		specs[i] = spec
+		total += spec.Load.Increments
+	}
+	// The variants run side by side (a 2-core machine halves the wait);
+	// each one's output is held back and printed in order, so the text is
+	// the same as a one-by-one run. --verbose runs them one by one to keep
+	// the iteration logs apart.
+	type outcome struct {
+		code        int
+		out, errOut bytes.Buffer
+	}
+	results := make([]outcome, len(models))
+	progress := demoProgress(stderr, total)
+	done := make([]int, len(models))
+	var mu sync.Mutex
+	var wg sync.WaitGroup
+	for i, m := range models {
+		o := &results[i]
+		flags := runFlags{verbose: *verbose}
+		if progress != nil {
+			flags.progress = func(n int) {
+				mu.Lock()
+				defer mu.Unlock()
+				done[i] = n
+				progress(done)
+			}
 		}
-		s, err := readSummary(filepath.Join(dir, "summary.json"))
+		job := func() {
+			o.code = runModel(specs[i], m.Name+".toml", filepath.Join(*outDir, m.Name), flags, &o.out, &o.errOut)
+		}
+		if *verbose {
+			o.code = runModel(specs[i], m.Name+".toml", filepath.Join(*outDir, m.Name), flags, &o.out, stderr)
+			continue
+		}
+		wg.Go(job)
+	}
+	wg.Wait()
+	if progress != nil {
+		progress(nil)
+	}
+	var sums []summary
+	for i, m := range models {
+		o := &results[i]
+		stdout.Write(o.out.Bytes())
+		fmt.Fprintln(stdout)
+		stderr.Write(o.errOut.Bytes())
+		if o.code != exitOK {
+			return o.code
+		}
+		s, err := readSummary(filepath.Join(*outDir, m.Name, "summary.json"))
 		if err != nil {
 			fmt.Fprintf(stderr, "demo %s: %v\n", m.Name, err)
 			return exitAnalysis
@@ -70,6 +113,26 @@ Flags:
 	}
 	compareTable(stdout, []string{"flat face", "defined bands"}, sums)
 	return exitOK
+}
+
+// demoProgress returns a progress display over all variants on a
+// terminal (nil in pipes and CI); called with nil it finishes the bar.
+func demoProgress(stderr io.Writer, total int) func(done []int) {
+	bar := progressBar(stderr, total, "demo")
+	if bar == nil {
+		return nil
+	}
+	return func(done []int) {
+		if done == nil {
+			_ = bar.Finish()
+			return
+		}
+		n := 0
+		for _, d := range done {
+			n += d
+		}
+		_ = bar.Set(n)
+	}
 }
 
 func readSummary(path string) (summary, error) {

@@ -63,6 +63,9 @@ Flags:
 type runFlags struct {
 	verbose bool
 	dump    string // --dump-matrix directory, or ""
+	// progress, if set, receives the increments done instead of a
+	// progress bar of the run's own (demo runs several models at once).
+	progress func(done int)
 }
 
 // runModel runs one valid model and writes its results; it returns the
@@ -87,11 +90,16 @@ func runModel(spec *Spec, path, dir string, flags runFlags, stdout, stderr io.Wr
 			return dumpSystem(flags.dump, strings.TrimSuffix(filepath.Base(path), ".toml")+" first tangent", k, rhs)
 		}
 	}
-	if flags.verbose {
+	switch {
+	case flags.verbose:
 		opt.log = func(line string) { fmt.Fprintln(stderr, line) }
-	} else if bar := progressBar(stderr, spec.Load.Increments, filepath.Base(path)); bar != nil {
-		opt.progress = func(done, _ int) { _ = bar.Set(done) }
-		defer bar.Finish()
+	case flags.progress != nil:
+		opt.progress = func(done, _ int) { flags.progress(done) }
+	default:
+		if bar := progressBar(stderr, spec.Load.Increments, filepath.Base(path)); bar != nil {
+			opt.progress = func(done, _ int) { _ = bar.Set(done) }
+			defer bar.Finish()
+		}
 	}
 	start := time.Now()
 	res, err := seg.analyse(opt)
