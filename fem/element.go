@@ -61,6 +61,9 @@ type PointResult struct {
 	X, Z   float64
 	Strain material.Vec4
 	Stress material.Vec4
+	// History is the material state at the point (nil for elastic laws);
+	// it aliases the model's storage and changes with the next evaluation.
+	History []float64
 }
 
 // elementResponse computes the internal force fe and, if ke != nil, the
@@ -90,7 +93,8 @@ func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, 
 		for c := range elastic {
 			elastic[c] -= eigen[c]
 		}
-		stress, d, err := law.Respond(m.opt.Condition, elastic, nil, nil)
+		committed, trial := m.history.point(e, ip)
+		stress, d, err := law.Respond(m.opt.Condition, elastic, committed, trial)
 		if err != nil {
 			return fmt.Errorf("fem: element %d, point %d: %w", e, ip, err)
 		}
@@ -99,7 +103,7 @@ func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, 
 			addFoundation(g, spring, ue, fe, ke)
 		}
 		if pts != nil {
-			pts[ip] = PointResult{X: g.X, Z: g.Z, Strain: strain, Stress: stress}
+			pts[ip] = PointResult{X: g.X, Z: g.Z, Strain: strain, Stress: stress, History: trial}
 		}
 	}
 	return nil

@@ -75,7 +75,46 @@ type Model struct {
 	eq         []int    // dof → equation, −1 if fixed or dependent; nil until numbered
 	stamp      int      // changes whenever element responses may change (foundations)
 	nEq        int
+	history    history
 }
+
+// history is the material state of every integration point: committed
+// at the last converged state, trial at the last evaluation. Element e's
+// points hold committed[offset[e]:offset[e+1]], size[e] values a point.
+type history struct {
+	offset, size     []int
+	committed, trial []float64
+}
+
+// newHistory lays out the state of laws that keep one (none for elastic).
+func newHistory(m *mesh.Mesh, laws []material.Law, points int) history {
+	h := history{offset: make([]int, len(m.Elements)+1), size: make([]int, len(m.Elements))}
+	for e, el := range m.Elements {
+		h.size[e] = laws[el.Region].StateSize()
+		h.offset[e+1] = h.offset[e] + points*h.size[e]
+	}
+	n := h.offset[len(m.Elements)]
+	h.committed, h.trial = make([]float64, n), make([]float64, n)
+	return h
+}
+
+// point returns the committed and trial state of point ip of element e
+// (nil for a law without state).
+func (h *history) point(e, ip int) (committed, trial []float64) {
+	if h.size[e] == 0 {
+		return nil, nil
+	}
+	a := h.offset[e] + ip*h.size[e]
+	return h.committed[a : a+h.size[e]], h.trial[a : a+h.size[e]]
+}
+
+// CommitHistory accepts the material state of the last evaluation as
+// converged (the Solver does this in Commit).
+func (m *Model) CommitHistory() { copy(m.history.committed, m.history.trial) }
+
+// HasHistory tells whether any material law keeps a state, so that the
+// response depends on the path and increments must stay small.
+func (m *Model) HasHistory() bool { return len(m.history.trial) > 0 }
 
 // NewModel checks the mesh against the laws (one for every region's
 // material name) and the options.
@@ -128,6 +167,7 @@ func NewModel(m *mesh.Mesh, laws map[string]material.Law, opt Options) (*Model, 
 	}
 	md.eigen = make([]material.Vec4, len(m.Regions))
 	md.foundation = make([][2]float64, len(m.Regions))
+	md.history = newHistory(m, md.laws, len(rule))
 	md.grow(2 * len(m.Nodes))
 	return md, nil
 }

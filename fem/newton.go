@@ -547,6 +547,7 @@ func (s *Solver) Commit() {
 		s.lastStep, s.pendingStep = s.pendingStep, 0
 	}
 	copy(s.done, s.u)
+	s.m.CommitHistory()
 	for _, p := range s.pairs {
 		p.Commit()
 	}
