@@ -55,6 +55,7 @@ type summary struct {
 	Mesh      meshSummary      `json:"mesh"`
 	Solver    solverSummary    `json:"solver"`
 	Hand      handcalc.Results `json:"hand_methods"`
+	Verdict   *verdict         `json:"verdict,omitempty"` // with [load] design_force
 }
 
 type meshSummary struct {
@@ -86,6 +87,7 @@ func makeSummary(path string, g *segment, res *analysis) summary {
 	s := summary{
 		Title: g.spec.Title, Model: filepath.Base(path), Caution: caution,
 		Converged: res.failure == nil, Ending: res.ending, Joint: figures(g, res), Hand: g.hand,
+		Verdict: handVerdict(g.hand, g.spec.Load.DesignForce, defaultBorderline),
 		Mesh: meshSummary{Nodes: len(g.mesh.Nodes), Elements: len(g.mesh.Elements), Equations: res.equation,
 			Element: g.spec.Mesh.Element, MinJacobianRatio: q.MinJacobianRatio, MaxAspectRatio: q.MaxAspectRatio},
 		Solver: solverSummary{Increments: len(res.rows) - 1, NewtonIterations: res.timing.Iterations,

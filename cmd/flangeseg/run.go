@@ -191,6 +191,11 @@ func printSummary(w io.Writer, s summary, dir string, took time.Duration) {
 	fmt.Fprintf(w, "  decompression load    %s\n", kNOr(j.DecompressionKN))
 	fmt.Fprintf(w, "  largest Z             %.1f kN at u = %.3f mm (%s)\n", j.PeakLoadKN, j.DisplacementPeakMM, s.Ending)
 	fmt.Fprintf(w, "  hand ultimate load    %.1f kN (%s)\n", j.HandUltimateKN, j.HandUltimateBasis)
+	if v := s.Verdict; v != nil {
+		for _, l := range v.Lines {
+			fmt.Fprintf(w, "  hand utilisation      %.3f of Z_u = %.1f kN for Z_Ed = %.1f kN, %s (%s)\n", l.Utilisation, l.CapacityKN, v.DesignForceKN, l.Status, l.Method)
+		}
+	}
 	fmt.Fprintf(w, "  largest penetration   %.2g mm\n", j.PenetrationMaxMM)
 	fmt.Fprintf(w, "  %d equations, %d increments, %d Newton iterations, %.1f s; results in %s\n",
 		s.Mesh.Equations, s.Solver.Increments, s.Solver.NewtonIterations, took.Seconds(), dir)

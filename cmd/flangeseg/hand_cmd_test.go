@@ -1,0 +1,76 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+func TestUtilisationStatus(t *testing.T) {
+	for _, c := range []struct {
+		eta  float64
+		want string
+	}{
+		{0.5, "ok"}, {0.899, "ok"}, {0.9, "borderline"}, {1.0, "borderline"},
+		{1.1, "borderline"}, {1.101, "exceeded"}, {2, "exceeded"},
+	} {
+		if got := utilisationStatus(c.eta, 0.1); got != c.want {
+			t.Errorf("utilisation %g: %q, want %q", c.eta, got, c.want)
+		}
+	}
+}
+
+// The hand command on the demo with a design force: the verdict's
+// utilisation is Z_Ed over the design-basis mechanism load it prints.
+func TestHandCommand(t *testing.T) {
+	data := strings.Replace(string(demoModels()[0].Data), "[load]\n", "[load]\ndesign_force = 480e3\n", 1)
+	path := filepath.Join(t.TempDir(), "joint.toml")
+	if err := os.WriteFile(path, []byte(data), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var out, errOut bytes.Buffer
+	if code := run([]string{"hand", path, "--json"}, &out, &errOut); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errOut.String())
+	}
+	var got struct {
+		Verdict *verdict `json:"verdict"`
+	}
+	if err := json.Unmarshal(out.Bytes(), &got); err != nil {
+		t.Fatal(err)
+	}
+	if got.Verdict == nil || len(got.Verdict.Lines) != 2 {
+		t.Fatalf("verdict %+v", got.Verdict)
+	}
+	for _, l := range got.Verdict.Lines {
+		if want := 480 / l.CapacityKN; abs(l.Utilisation-want) > 1e-9 {
+			t.Errorf("%s: utilisation %g, want Z_Ed/Z_u = %g", l.Method, l.Utilisation, want)
+		}
+		if l.Status != utilisationStatus(l.Utilisation, defaultBorderline) {
+			t.Errorf("%s: status %q for utilisation %g", l.Method, l.Status, l.Utilisation)
+		}
+	}
+	out.Reset()
+	if code := run([]string{"hand", path}, &out, &errOut); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errOut.String())
+	}
+	for _, want := range []string{"Petersen", "Seidel", "VDI 2230", "Schmidt/Neuhaus", "Verdict for the design segment force", "design aid"} {
+		if !strings.Contains(out.String(), want) {
+			t.Errorf("hand output lacks %q", want)
+		}
+	}
+	for _, args := range [][]string{{"hand"}, {"hand", path, "--margin", "1.5"}, {"hand", filepath.Join(t.TempDir(), "missing.toml")}} {
+		if code := run(args, &out, &errOut); code != exitBadInput {
+			t.Errorf("%v: exit %d, want %d", args, code, exitBadInput)
+		}
+	}
+}
+
+func abs(x float64) float64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
