@@ -1,14 +1,12 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"flag"
 	"fmt"
 	"io"
 	"os"
 	"path/filepath"
-	"sync"
 	"text/tabwriter"
 )
 
@@ -47,92 +45,21 @@ Flags:
 		}
 		return exitOK
 	}
-	specs := make([]*Spec, len(models))
-	total := 0
+	jobs := make([]modelJob, len(models))
 	for i, m := range models {
 		spec, err := decodeSpec(m.Data)
 		if err != nil {
 			fmt.Fprintf(stderr, "demo %s: %v\n", m.Name, err)
 			return exitBadInput
 		}
-		specs[i] = spec
-		total += spec.Load.Increments
+		jobs[i] = modelJob{spec: spec, path: m.Name + ".toml", dir: filepath.Join(*outDir, m.Name)}
 	}
-	// The variants run side by side (a 2-core machine halves the wait);
-	// each one's output is held back and printed in order, so the text is
-	// the same as a one-by-one run. --verbose runs them one by one to keep
-	// the iteration logs apart.
-	type outcome struct {
-		code        int
-		out, errOut bytes.Buffer
-	}
-	results := make([]outcome, len(models))
-	progress := demoProgress(stderr, total)
-	done := make([]int, len(models))
-	var mu sync.Mutex
-	var wg sync.WaitGroup
-	for i, m := range models {
-		o := &results[i]
-		flags := runFlags{verbose: *verbose}
-		if progress != nil {
-			flags.progress = func(n int) {
-				mu.Lock()
-				defer mu.Unlock()
-				done[i] = n
-				progress(done)
-			}
-		}
-		job := func() {
-			o.code = runModel(specs[i], m.Name+".toml", filepath.Join(*outDir, m.Name), flags, &o.out, &o.errOut)
-		}
-		if *verbose {
-			o.code = runModel(specs[i], m.Name+".toml", filepath.Join(*outDir, m.Name), flags, &o.out, stderr)
-			continue
-		}
-		wg.Go(job)
-	}
-	wg.Wait()
-	if progress != nil {
-		progress(nil)
-	}
-	var sums []summary
-	for i, m := range models {
-		o := &results[i]
-		stdout.Write(o.out.Bytes())
-		fmt.Fprintln(stdout)
-		stderr.Write(o.errOut.Bytes())
-		if o.code != exitOK {
-			return o.code
-		}
-		s, err := readSummary(filepath.Join(*outDir, m.Name, "summary.json"))
-		if err != nil {
-			fmt.Fprintf(stderr, "demo %s: %v\n", m.Name, err)
-			return exitAnalysis
-		}
-		sums = append(sums, s)
+	sums, code := runModels(jobs, "demo", *verbose, stdout, stderr)
+	if code != exitOK {
+		return code
 	}
 	compareTable(stdout, []string{"flat face", "defined bands"}, sums)
 	return exitOK
-}
-
-// demoProgress returns a progress display over all variants on a
-// terminal (nil in pipes and CI); called with nil it finishes the bar.
-func demoProgress(stderr io.Writer, total int) func(done []int) {
-	bar := progressBar(stderr, total, "demo")
-	if bar == nil {
-		return nil
-	}
-	return func(done []int) {
-		if done == nil {
-			_ = bar.Finish()
-			return
-		}
-		n := 0
-		for _, d := range done {
-			n += d
-		}
-		_ = bar.Set(n)
-	}
 }
 
 func readSummary(path string) (summary, error) {
@@ -142,6 +69,32 @@ func readSummary(path string) (summary, error) {
 		return s, err
 	}
 	return s, json.Unmarshal(data, &s)
+}
+
+// comparedQuantity is one row of a comparison: a joint figure of a run.
+type comparedQuantity struct {
+	name, column string // table text with unit; CSV column name
+	get          func(s summary) float64
+}
+
+func comparedQuantities() []comparedQuantity {
+	ptr := func(p *float64) float64 {
+		if p == nil {
+			return 0
+		}
+		return *p
+	}
+	return []comparedQuantity{
+		{"stiffness at Z = 0 [kN/mm]", "stiffness_tangent_at_zero_kN_per_mm", func(s summary) float64 { return s.Joint.StiffnessTangentZero }},
+		{"secant stiffness to reference [kN/mm]", "stiffness_secant_to_reference_kN_per_mm", func(s summary) float64 { return ptr(s.Joint.StiffnessToReference) }},
+		{"joint alone, secant to reference [kN/mm]", "joint_stiffness_secant_to_reference_kN_per_mm", func(s summary) float64 { return ptr(s.Joint.JointStiffnessReference) }},
+		{"load factor at Z = 0 [-]", "load_factor_tangent_at_zero", func(s summary) float64 { return s.Joint.LoadFactorTangentZero }},
+		{"load factor, secant to reference [-]", "load_factor_secant_to_reference", func(s summary) float64 { return ptr(s.Joint.LoadFactorToReference) }},
+		{"opening load [kN]", "opening_load_kN", func(s summary) float64 { return ptr(s.Joint.OpeningLoadKN) }},
+		{"decompression load [kN]", "decompression_load_kN", func(s summary) float64 { return ptr(s.Joint.DecompressionKN) }},
+		{"peak segment force [kN]", "peak_load_kN", func(s summary) float64 { return s.Joint.PeakLoadKN }},
+		{"displacement at the end [mm]", "displacement_at_end_mm", func(s summary) float64 { return s.Joint.DisplacementEndMM }},
+	}
 }
 
 // compareTable prints the joint figures of several runs with their ratio
@@ -156,25 +109,7 @@ func compareTable(w io.Writer, names []string, sums []summary) {
 		}
 	}
 	fmt.Fprintln(tw)
-	ptr := func(p *float64) float64 {
-		if p == nil {
-			return 0
-		}
-		return *p
-	}
-	rows := []struct {
-		name string
-		get  func(s summary) float64
-	}{
-		{"stiffness at Z = 0 [kN/mm]", func(s summary) float64 { return s.Joint.StiffnessTangentZero }},
-		{"secant stiffness to reference [kN/mm]", func(s summary) float64 { return ptr(s.Joint.StiffnessToReference) }},
-		{"joint alone, secant to reference [kN/mm]", func(s summary) float64 { return ptr(s.Joint.JointStiffnessReference) }},
-		{"load factor at Z = 0 [-]", func(s summary) float64 { return s.Joint.LoadFactorTangentZero }},
-		{"load factor, secant to reference [-]", func(s summary) float64 { return ptr(s.Joint.LoadFactorToReference) }},
-		{"opening load [kN]", func(s summary) float64 { return ptr(s.Joint.OpeningLoadKN) }},
-		{"decompression load [kN]", func(s summary) float64 { return ptr(s.Joint.DecompressionKN) }},
-	}
-	for _, r := range rows {
+	for _, r := range comparedQuantities() {
 		fmt.Fprintf(tw, "%s\t", r.name)
 		base := r.get(sums[0])
 		for i, s := range sums {
@@ -191,6 +126,10 @@ func compareTable(w io.Writer, names []string, sums []summary) {
 		fmt.Fprintln(tw)
 	}
 	tw.Flush()
+	fmt.Fprintln(w, "failure mechanism:")
+	for i, s := range sums {
+		fmt.Fprintf(w, "  %s: %s\n", names[i], s.Joint.FailureLocation)
+	}
 	if len(sums) > 0 {
 		fmt.Fprintf(w, "reference load: %.0f kN (%s); 0 means not reached\n", sums[0].Joint.ReferenceLoadKN, sums[0].Joint.ReferenceFrom)
 	}

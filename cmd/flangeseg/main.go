@@ -28,6 +28,7 @@ type command struct {
 
 func commands() []command {
 	return []command{
+		{"compare", "run several model files side by side and compare their stiffness, bolt force and capacity", runCompare},
 		{"demo", "run the built-in demo joint (flat face and defined contact bands) and compare them", runDemo},
 		{"hand", "run the hand methods (EN 1993-1-8, Petersen, Seidel, VDI 2230, trilinear) for a model file", runHand},
 		{"mesh", "mesh a model file and write mesh.vtu with the element quality", runMesh},

@@ -1,0 +1,187 @@
+package main
+
+import (
+	"encoding/csv"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"flangeseg/post"
+)
+
+func runCompare(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("compare", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	outDir := fs.String("o", "compare_results", "write each model's run into `DIR`/NAME and the comparison into DIR")
+	verbose := fs.Bool("verbose", false, "log every Newton iteration on stderr (runs the models one by one)")
+	fs.Usage = func() {
+		fmt.Fprintf(stderr, `Usage: flangeseg compare A.toml B.toml [C.toml ...] [-o DIR] [--verbose]
+
+Runs several models side by side (one per core) and compares them: a table
+of initial stiffness, secant stiffness to the reference load, load factor,
+opening and decompression load, peak segment force, displacement at the end
+and failure mechanism, each with its ratio to the first model. The table is
+printed and written to DIR/comparison.csv; DIR/compare_Fs_Z and
+DIR/compare_Z_u (SVG and PNG) overlay the curves; each model's own results
+are in DIR/NAME, NAME being its file name without .toml.
+
+Typical uses: defined contact bands against a flat face, a fully threaded
+against a partially threaded bolt, another flange thickness.
+
+%s
+
+Flags:
+`, caution)
+		fs.PrintDefaults()
+	}
+	if err := fs.Parse(reorder(args)); err != nil {
+		return parseExit(err)
+	}
+	if fs.NArg() < 2 {
+		fmt.Fprintln(stderr, "flangeseg compare: want two or more model files; run 'flangeseg compare --help'")
+		return exitBadInput
+	}
+	jobs, names, ok := compareJobs(fs.Args(), *outDir, stderr)
+	if !ok {
+		return exitBadInput
+	}
+	sums, code := runModels(jobs, "compare", *verbose, stdout, stderr)
+	if code != exitOK {
+		fmt.Fprintln(stderr, "flangeseg compare: a model did not finish; no comparison written")
+		return code
+	}
+	compareTable(stdout, names, sums)
+	if err := writeComparison(*outDir, names, jobs, sums); err != nil {
+		fmt.Fprintf(stderr, "flangeseg compare: writing the comparison: %v\n", err)
+		return exitAnalysis
+	}
+	fmt.Fprintf(stdout, "comparison in %s\n", *outDir)
+	return exitOK
+}
+
+// compareJobs loads every model (all errors are reported before any run)
+// and gives each a run directory named after its file.
+func compareJobs(paths []string, dir string, stderr io.Writer) ([]modelJob, []string, bool) {
+	var jobs []modelJob
+	var names []string
+	used := map[string]int{}
+	ok := true
+	for _, path := range paths {
+		spec, err := loadSpec(path)
+		var me *modelError
+		switch {
+		case errors.As(err, &me):
+			fmt.Fprintln(stderr, err)
+			fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.errs), plural(len(me.errs), "error", "errors"))
+			ok = false
+			continue
+		case err != nil:
+			fmt.Fprintf(stderr, "flangeseg compare: %v\n", err)
+			ok = false
+			continue
+		}
+		name := fileStem(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)))
+		if name == "" {
+			name = "model"
+		}
+		used[name]++
+		if n := used[name]; n > 1 {
+			name = fmt.Sprintf("%s_%d", name, n)
+		}
+		names = append(names, name)
+		jobs = append(jobs, modelJob{spec: spec, path: path, dir: filepath.Join(dir, name)})
+	}
+	return jobs, names, ok
+}
+
+// writeComparison writes the table as CSV (one row per model) and the
+// overlaid curves.
+func writeComparison(dir string, names []string, jobs []modelJob, sums []summary) error {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	quantities := comparedQuantities()
+	err := post.WriteFileAtomic(filepath.Join(dir, "comparison.csv"), func(w io.Writer) error {
+		cw := csv.NewWriter(w)
+		head := []string{"model", "file"}
+		for _, q := range quantities {
+			head = append(head, q.column, "ratio_"+q.column)
+		}
+		head = append(head, "failure_mechanism")
+		if err := cw.Write(head); err != nil {
+			return err
+		}
+		for i, s := range sums {
+			row := []string{names[i], jobs[i].path}
+			for _, q := range quantities {
+				v, base := q.get(s), q.get(sums[0])
+				ratio := ""
+				if base != 0 {
+					ratio = strconv.FormatFloat(v/base, 'g', 6, 64)
+				}
+				row = append(row, strconv.FormatFloat(v, 'g', 10, 64), ratio)
+			}
+			row = append(row, s.Joint.FailureLocation)
+			if err := cw.Write(row); err != nil {
+				return err
+			}
+		}
+		cw.Flush()
+		return cw.Error()
+	})
+	if err != nil {
+		return err
+	}
+	fsz := post.Plot{Title: "Bolt force against segment force", XLabel: "Z [kN]", YLabel: "F_s [kN]"}
+	zu := post.Plot{Title: "Segment force against displacement", XLabel: "u [mm]", YLabel: "Z [kN]"}
+	for i, j := range jobs {
+		h, err := readHistory(filepath.Join(j.dir, "history.csv"))
+		if err != nil {
+			return err
+		}
+		fsz.Series = append(fsz.Series, post.Series{Name: names[i], X: h["Z_kN"], Y: h["bolt_force_kN"]})
+		zu.Series = append(zu.Series, post.Series{Name: names[i], X: h["u_mm"], Y: h["Z_kN"]})
+	}
+	if err := post.WritePlot(filepath.Join(dir, "compare_Fs_Z"), fsz); err != nil {
+		return err
+	}
+	return post.WritePlot(filepath.Join(dir, "compare_Z_u"), zu)
+}
+
+// readHistory reads the numeric columns of a run's history.csv.
+func readHistory(path string) (map[string][]float64, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	records, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	if len(records) < 2 {
+		return nil, fmt.Errorf("%s: no rows", path)
+	}
+	cols := map[string][]float64{}
+	for _, r := range records[1:] {
+		for c, name := range records[0] {
+			if c >= len(r) {
+				continue
+			}
+			if v, err := strconv.ParseFloat(r[c], 64); err == nil {
+				cols[name] = append(cols[name], v)
+			}
+		}
+	}
+	for _, need := range []string{"Z_kN", "u_mm", "bolt_force_kN"} {
+		if len(cols[need]) != len(records)-1 {
+			return nil, fmt.Errorf("%s: column %s missing or incomplete", path, need)
+		}
+	}
+	return cols, nil
+}

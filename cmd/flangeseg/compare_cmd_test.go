@@ -1,0 +1,98 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// coarseModelFile writes demo model i with a coarse mesh and few
+// increments, for command tests.
+func coarseModelFile(t *testing.T, dir, name string, i int) string {
+	t.Helper()
+	text := string(demoModels()[i].Data)
+	for old, repl := range map[string]string{
+		"\nsize = 8\n":             "\nsize = 16\n",
+		"\nrefine = 0.3\n":         "\nrefine = 0.5\n",
+		"\nincrements = 40\n":      "\nincrements = 6\n",
+		"\nmax_displacement = 1.2": "\nmax_displacement = 0.6",
+	} {
+		if !strings.Contains(text, old) {
+			t.Fatalf("demo model %d lacks %q", i, old)
+		}
+		text = strings.Replace(text, old, repl, 1)
+	}
+	path := filepath.Join(dir, name)
+	if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+// compare on the demo's two contact variants (hand-methods issue): the
+// defined contact bands come out stiffer, as a ratio > 1 to the flat face
+// on the joint's secant stiffness to the reference load.
+func TestCompareCommand(t *testing.T) {
+	in := t.TempDir()
+	flat := coarseModelFile(t, in, "flat.toml", 0)
+	bands := coarseModelFile(t, in, "bands.toml", 1)
+	out := filepath.Join(t.TempDir(), "cmp")
+	var stdout, stderr bytes.Buffer
+	if code := run([]string{"compare", flat, bands, "-o", out}, &stdout, &stderr); code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr.String())
+	}
+	f, err := os.Open(filepath.Join(out, "comparison.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rec, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rec) != 3 || rec[1][0] != "flat" || rec[2][0] != "bands" {
+		t.Fatalf("comparison rows %v", rec)
+	}
+	col := -1
+	for c, name := range rec[0] {
+		if name == "ratio_joint_stiffness_secant_to_reference_kN_per_mm" {
+			col = c
+		}
+	}
+	if col < 0 {
+		t.Fatalf("no stiffness ratio column in %v", rec[0])
+	}
+	ratio, err := strconv.ParseFloat(rec[2][col], 64)
+	if err != nil || !(ratio > 1) {
+		t.Errorf("stiffness ratio bands/flat = %q: want > 1", rec[2][col])
+	}
+	for _, name := range []string{"compare_Fs_Z.svg", "compare_Z_u.png", "flat/summary.json", "bands/history.csv"} {
+		if _, err := os.Stat(filepath.Join(out, name)); err != nil {
+			t.Errorf("missing %s: %v", name, err)
+		}
+	}
+}
+
+// Bad input to compare: exit 2, and no output directory.
+func TestCompareBadInput(t *testing.T) {
+	in := t.TempDir()
+	flat := coarseModelFile(t, in, "flat.toml", 0)
+	broken := filepath.Join(in, "broken.toml")
+	if err := os.WriteFile(broken, []byte("title = \"x\"\n[bolt]\nhole = -1\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(t.TempDir(), "cmp")
+	for _, args := range [][]string{{"compare", flat}, {"compare", flat, broken, "-o", out}} {
+		var stdout, stderr bytes.Buffer
+		if code := run(args, &stdout, &stderr); code != exitBadInput {
+			t.Errorf("%v: exit %d, want %d", args, code, exitBadInput)
+		}
+	}
+	if _, err := os.Stat(out); !os.IsNotExist(err) {
+		t.Errorf("output directory created for bad input: %v", err)
+	}
+}

@@ -1,0 +1,107 @@
+package main
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"path/filepath"
+	"runtime"
+	"sync"
+)
+
+// modelJob is one model of a demo or compare run.
+type modelJob struct {
+	spec *Spec
+	path string // as the user named it, for messages
+	dir  string // its run directory
+}
+
+// runModels runs valid models side by side, as many at once as there are
+// cores, and returns their summaries in order. Each model's output is held
+// back and printed in order, so the text is the same as a one-by-one run;
+// verbose runs them one by one to keep the iteration logs apart. On a
+// terminal one progress bar counts the increments of all. The exit code is
+// the first failing model's, after every model has run.
+func runModels(jobs []modelJob, label string, verbose bool, stdout, stderr io.Writer) ([]summary, int) {
+	type outcome struct {
+		code        int
+		out, errOut bytes.Buffer
+	}
+	results := make([]outcome, len(jobs))
+	total := 0
+	for _, j := range jobs {
+		total += j.spec.Load.Increments
+	}
+	progress := combinedProgress(stderr, total, label)
+	done := make([]int, len(jobs))
+	var mu sync.Mutex
+	var wg sync.WaitGroup
+	slots := make(chan struct{}, max(1, runtime.NumCPU()))
+	for i, j := range jobs {
+		o := &results[i]
+		flags := runFlags{verbose: verbose}
+		if progress != nil {
+			flags.progress = func(n int) {
+				mu.Lock()
+				defer mu.Unlock()
+				done[i] = n
+				progress(done)
+			}
+		}
+		if verbose {
+			o.code = runModel(j.spec, j.path, j.dir, flags, &o.out, stderr)
+			continue
+		}
+		wg.Go(func() {
+			slots <- struct{}{}
+			defer func() { <-slots }()
+			o.code = runModel(j.spec, j.path, j.dir, flags, &o.out, &o.errOut)
+		})
+	}
+	wg.Wait()
+	if progress != nil {
+		progress(nil)
+	}
+	var sums []summary
+	code := exitOK
+	for i, j := range jobs {
+		o := &results[i]
+		stdout.Write(o.out.Bytes())
+		fmt.Fprintln(stdout)
+		stderr.Write(o.errOut.Bytes())
+		if o.code != exitOK {
+			if code == exitOK {
+				code = o.code
+			}
+			continue
+		}
+		s, err := readSummary(filepath.Join(j.dir, "summary.json"))
+		if err != nil {
+			fmt.Fprintf(stderr, "%s: %v\n", j.path, err)
+			code = exitAnalysis
+			continue
+		}
+		sums = append(sums, s)
+	}
+	return sums, code
+}
+
+// combinedProgress returns a progress display over several runs on a
+// terminal (nil in pipes and CI); called with nil it finishes the bar.
+func combinedProgress(stderr io.Writer, total int, label string) func(done []int) {
+	bar := progressBar(stderr, total, label)
+	if bar == nil {
+		return nil
+	}
+	return func(done []int) {
+		if done == nil {
+			_ = bar.Finish()
+			return
+		}
+		n := 0
+		for _, d := range done {
+			n += d
+		}
+		_ = bar.Set(n)
+	}
+}
