@@ -366,13 +366,15 @@ func (s *Solver) newton(fext []float64) (int, error) {
 	// Contact makes the residual piecewise smooth: a point on the edge of
 	// the contact zone or on the stick–slip boundary changes status with
 	// the step, and Newton's method can fall into a cycle between states.
-	// Two safeguards: after coupledIterations the sliding-friction
-	// couplings are left out, so the steps come from a symmetric positive
-	// definite tangent, which contract steadily, if only linearly; and a
-	// step that leaves the residual about where it was, or after that
-	// switch any larger, is halved (up to four times) before the next step
-	// is taken. (Halving every step that raises the residual would also
-	// halve the first steps after contact closes, which rightly overshoot.)
+	// Safeguards: a step that leaves the residual about where it was is
+	// halved (up to four times) before the next step is taken; after
+	// coupledIterations the sliding-friction couplings are left out, so the
+	// steps come from a symmetric positive definite tangent, which contract
+	// steadily, if only linearly; and from then on, or from the start with
+	// path-dependent materials (where a full step can carry yielding zones
+	// far off), so is a step that raises the residual. Early on, without
+	// yielding, a first step after contact closes rightly overshoots, and
+	// halving it would only slow the search.
 	prev, step := math.Inf(1), 1.0
 	last := make([]float64, len(s.u))
 	s.coupled = true
@@ -397,10 +399,8 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		if rel <= s.opt.Tolerance {
 			return it - 1, nil
 		}
-		if it > coupledIterations {
-			s.coupled = false
-		}
-		stuck := math.Abs(rel/prev-1) < 0.05 || (!s.coupled && rel > prev)
+		s.coupled = it <= coupledIterations
+		stuck := math.Abs(rel/prev-1) < 0.05 || ((s.m.HasHistory() || !s.coupled) && rel > prev)
 		if stuck && step > 1.0/16 {
 			step /= 2
 			s.retreat(last, du, step)
