@@ -118,9 +118,7 @@ func (s *Spec) handJoint(d Derived) handcalc.Joint {
 // contact pairs and the loaded edge.
 func buildSegment(s *Spec, d Derived) (*segment, error) {
 	g := &segment{spec: s, der: d}
-	msh, err := mesh.BuildFlangeSegment(s.geometry(d), mesh.FlangeMaterials{
-		Shell: s.Shell.Material, Flange: s.Flange.Material, Bolt: s.boltMaterial(),
-	})
+	msh, err := mesh.BuildFlangeSegment(s.geometry(d), s.partMaterials())
 	if err != nil {
 		return nil, fmt.Errorf("mesh: %w", err)
 	}
@@ -128,13 +126,22 @@ func buildSegment(s *Spec, d Derived) (*segment, error) {
 		return nil, fmt.Errorf("mesh: %w", err)
 	}
 	g.mesh = msh
-	laws := map[string]material.Law{}
-	for _, r := range msh.Regions {
-		info, err := s.material(r.Material, s.Flange.Thickness)
-		if err != nil {
-			return nil, fmt.Errorf("region %s: %w", r.Name, err)
+	laws, err := s.laws()
+	if err != nil {
+		return nil, err
+	}
+	// The preload slice takes the bolt's elastic law: its shortening is a
+	// device, not a strain of the steel, and a plastic slice would let the
+	// shortening flow away instead of tensioning the bolt.
+	for i, r := range msh.Regions {
+		if r.Name == "bolt_preload" {
+			info, err := s.material(s.boltMaterial(), 0)
+			if err != nil {
+				return nil, err
+			}
+			msh.Regions[i].Material = "bolt preload slice"
+			laws[msh.Regions[i].Material] = material.Elastic{E: info.E, Nu: info.Nu}
 		}
-		laws[r.Material] = material.Elastic{E: info.E, Nu: info.Nu}
 	}
 	shell, _ := s.material(s.Shell.Material, s.Shell.Thickness)
 	g.shellE = shell.E

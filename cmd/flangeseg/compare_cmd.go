@@ -140,7 +140,7 @@ func writeComparison(dir string, names []string, jobs []modelJob, sums []summary
 	fsz := post.Plot{Title: "Bolt force against segment force", XLabel: "Z [kN]", YLabel: "F_s [kN]"}
 	zu := post.Plot{Title: "Segment force against displacement", XLabel: "u [mm]", YLabel: "Z [kN]"}
 	for i, j := range jobs {
-		h, err := readHistory(filepath.Join(j.dir, "history.csv"))
+		h, err := readHistoryColumns(filepath.Join(j.dir, "history.csv"))
 		if err != nil {
 			return err
 		}
@@ -153,8 +153,8 @@ func writeComparison(dir string, names []string, jobs []modelJob, sums []summary
 	return post.WritePlot(filepath.Join(dir, "compare_Z_u"), zu)
 }
 
-// readHistory reads the numeric columns of a run's history.csv.
-func readHistory(path string) (map[string][]float64, error) {
+// readHistoryColumns reads the numeric columns of a run's history.csv.
+func readHistoryColumns(path string) (map[string][]float64, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, err

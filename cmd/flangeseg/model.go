@@ -147,6 +147,16 @@ type AnalysisSpec struct {
 	Plane            string `toml:"plane"` // "stress" or "strain"
 	LargeDeformation bool   `toml:"large_deformation"`
 	RingSprings      bool   `toml:"ring_springs"` // hoop stiffness of the ring as springs on the wall
+	// Materials is "elastoplastic" (von Mises plasticity with the curves
+	// of the grades or of [materials]) or "elastic" (every material
+	// linear elastic: the service range only).
+	Materials string `toml:"materials"`
+	// BoltStrength picks the bolt curve: "minimum" (ISO 898-1 minimum
+	// values) or "nominal" (EN 1993-1-8 Table 3.1 f_yb, f_ub).
+	BoltStrength string `toml:"bolt_strength"`
+	// NeckingWeight is Ling's (1996) weight w between the linear and the
+	// power-law extension of a curve past necking, in [0, 1].
+	NeckingWeight *float64 `toml:"necking_weight,omitempty"`
 }
 
 // MaterialSpec is a material the file defines. Without Curve it is linear
@@ -172,6 +182,10 @@ const (
 	elementQuad4     = "quad4"
 	planeStress      = "stress"
 	planeStrain      = "strain"
+	elastoplastic    = "elastoplastic"
+	elasticOnly      = "elastic"
+	boltMinimum      = "minimum"
+	boltNominal      = "nominal"
 	curveTrue        = "true"
 	curveEngineering = "engineering"
 )
@@ -601,6 +615,13 @@ func keyDefaults() []keyDefault {
 		{"analysis.plane", `"stress"`, func(s *Spec) { s.Analysis.Plane = planeStress }},
 		{"analysis.large_deformation", "false", nil},
 		{"analysis.ring_springs", "true", func(s *Spec) { s.Analysis.RingSprings = true }},
+		{"analysis.materials", `"elastoplastic"`, func(s *Spec) { s.Analysis.Materials = elastoplastic }},
+		{"analysis.bolt_strength", `"minimum"`, func(s *Spec) { s.Analysis.BoltStrength = boltMinimum }},
+		{"analysis.necking_weight", "0.5", func(s *Spec) {
+			if s.Analysis.NeckingWeight == nil {
+				s.Analysis.NeckingWeight = ptr(0.5)
+			}
+		}},
 	}
 }
 

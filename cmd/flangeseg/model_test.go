@@ -154,7 +154,7 @@ func TestDefaults(t *testing.T) {
 	want.Preload = PreloadSpec{Fraction: ptr(1.0)}
 	want.Load = LoadSpec{MaxDisplacement: 1.2, Increments: 40, StopDrop: 0.2, EndRotation: "free"}
 	want.Mesh = MeshSpec{Size: 9, Refine: 0.3, Element: "quad8"} // round(28/3)
-	want.Analysis = AnalysisSpec{Plane: "stress", RingSprings: true}
+	want.Analysis = AnalysisSpec{Plane: "stress", RingSprings: true, Materials: "elastoplastic", BoltStrength: "minimum", NeckingWeight: ptr(0.5)}
 	if !reflect.DeepEqual(*s, want) {
 		t.Errorf("defaults:\n got %+v\nwant %+v", *s, want)
 	}

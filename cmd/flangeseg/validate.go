@@ -389,6 +389,11 @@ func (s *Spec) checkMesh(c *checker) {
 	c.number("mesh.refine", m.Refine, m.Refine > 0 && m.Refine <= 1, "must lie in (0, 1]")
 	c.oneOf("mesh.element", m.Element, elementQuad8, elementQuad4)
 	c.oneOf("analysis.plane", s.Analysis.Plane, planeStress, planeStrain)
+	c.oneOf("analysis.materials", s.Analysis.Materials, elastoplastic, elasticOnly)
+	c.oneOf("analysis.bolt_strength", s.Analysis.BoltStrength, boltMinimum, boltNominal)
+	if w := s.Analysis.NeckingWeight; w != nil {
+		c.number("analysis.necking_weight", *w, *w >= 0 && *w <= 1, "must lie in [0, 1]")
+	}
 }
 
 func (s *Spec) checkMaterials(c *checker) {
