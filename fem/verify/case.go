@@ -63,6 +63,8 @@ func Cases() []Case {
 		{"kirsch", "Kirsch, Timoshenko & Goodier, Theory of Elasticity", runKirsch},
 		{"hertz", "Hertz; K. L. Johnson, Contact Mechanics (1985)", runHertz},
 		{"contact-patch", "contact patch test (Taylor & Papadopoulos 1991)", runContactPatch},
+		{"elastica", "Bisshopp & Drucker (1945): elastica, elliptic integrals", runElastica},
+		{"rotation", "objectivity requirement (any nonlinear FE text)", runRotation},
 	}
 }
 
