@@ -31,6 +31,7 @@ func commands() []command {
 		{"compare", "run several model files side by side and compare their stiffness, bolt force and capacity", runCompare},
 		{"demo", "run the built-in demo joint (flat face and defined contact bands) and compare them", runDemo},
 		{"hand", "run the hand methods (EN 1993-1-8, Petersen, Seidel, VDI 2230, trilinear) for a model file", runHand},
+		{"fatigue", "bolt fatigue damage under a load spectrum, from the FE or the hand bolt-force function", runFatigue},
 		{"mesh", "mesh a model file and write mesh.vtu with the element quality", runMesh},
 		{"run", "run the finite-element analysis of one bolt segment from a model file", runRun},
 		{"validate", "check a model file and print it with its defaults and derived quantities", runValidate},
