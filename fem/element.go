@@ -66,6 +66,22 @@ type PointResult struct {
 	History []float64
 }
 
+// PointError is a material law that gave no answer at an integration
+// point: a strain it cannot take (not finite, from an inverted element) or
+// a step too large for its return mapping. In an equilibrium iteration it
+// means the step was too large, and the solver reports it as not
+// converged so that the step is cut.
+type PointError struct {
+	Element, Point int
+	Err            error
+}
+
+func (e *PointError) Error() string {
+	return fmt.Sprintf("fem: element %d, point %d: %v", e.Element, e.Point, e.Err)
+}
+
+func (e *PointError) Unwrap() error { return e.Err }
+
 // elementResponse computes the internal force fe and, if ke != nil, the
 // tangent of element e at element displacements ue. If pts is not nil it
 // receives one PointResult per integration point.
@@ -96,7 +112,7 @@ func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, 
 		committed, trial := m.history.point(e, ip)
 		stress, d, err := law.Respond(m.opt.Condition, elastic, committed, trial)
 		if err != nil {
-			return fmt.Errorf("fem: element %d, point %d: %w", e, ip, err)
+			return &PointError{Element: e, Point: ip, Err: err}
 		}
 		m.kin.Accumulate(m.opt.Condition, g, ue, stress, &d, fe, ke)
 		if spring != [2]float64{} {

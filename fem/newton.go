@@ -383,6 +383,10 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			return it, err
 		}
 		if err := s.assemble(true); err != nil {
+			var pe *PointError
+			if errors.As(err, &pe) {
+				return it, &NotConvergedError{Iterations: it - 1, Residual: s.lastRes, Reason: err.Error()}
+			}
 			return it, err
 		}
 		r := s.m.freeResidual(fext, s.fint)
@@ -469,7 +473,7 @@ func (s *Solver) direction(du, r []float64) error {
 	s.Timing.Solve -= time.Since(start)
 	if err != nil {
 		s.factorOK = false
-		return s.m.factorError(err)
+		return s.unstable(s.m.factorError(err))
 	}
 	s.Timing.Factorizations++
 	s.factorOK, s.factorStale = true, false
@@ -655,6 +659,19 @@ func (s *Solver) Snapshot() (*Solution, error) {
 		return nil, err
 	}
 	return &Solution{model: s.m, U: slices.Clone(s.u), Points: pts, Equations: s.m.nEq, FactorNonzeros: s.sym.FactorNNZ()}, nil
+}
+
+// unstable turns a tangent that is not positive definite into a failed
+// equilibrium solve where that is a state of the structure, not a missing
+// support: with yielding or large deformation the tangent of an iterate,
+// or past a limit point, can be indefinite, and the step is to be cut.
+func (s *Solver) unstable(err error) error {
+	if !s.m.HasHistory() {
+		if _, small := s.m.kin.(SmallStrain); small {
+			return err
+		}
+	}
+	return &NotConvergedError{Iterations: s.Timing.Iterations, Residual: s.lastRes, Reason: "the tangent is not positive definite: " + err.Error()}
 }
 
 // IsNotConverged reports whether err is a failed equilibrium solve.
