@@ -2,7 +2,10 @@ package fem
 
 import (
 	"fmt"
+	"runtime"
 	"sort"
+	"sync"
+	"sync/atomic"
 
 	"flangeseg/material"
 
@@ -101,6 +104,12 @@ type assembler struct {
 	s      *scratch
 	kt     []float64 // Tᵀ·ke·T
 	tmp    []float64
+	// Buffers of the elements evaluated in an assembly: their indices,
+	// forces and tangents (maxElementDofs-strided slots), and the scratch
+	// of the workers beyond the first.
+	work    []int
+	fe, ke  []float64
+	scratch []*scratch
 }
 
 func newAssembler(m *Model) *assembler {
@@ -129,28 +138,43 @@ func (a *assembler) assemble(u, fint []float64, k *sparse.Matrix, pts [][]PointR
 		k.Zero()
 	}
 	s := a.s
+	// Elements with a cached linear stiffness cost a product; the others
+	// (yielding, finite strain, eigenstrain, point output) are evaluated
+	// first, side by side on all cores, into per-element buffers, and
+	// then everything is summed in element order, so the result does not
+	// depend on the number of cores.
+	work := a.work[:0]
+	for e := range a.maps {
+		nd := len(a.maps[e].dofs)
+		if pts == nil && a.m.eigen[a.m.mesh.Elements[e].Region] == ([4]float64{}) && a.cached(e, nd) != nil {
+			continue
+		}
+		work = append(work, e)
+	}
+	a.work = work
+	if err := a.evaluate(work, u, k != nil, pts); err != nil {
+		return err
+	}
+	next := 0
 	for e := range a.maps {
 		em := &a.maps[e]
 		nd := len(em.dofs)
-		ue, fe := s.ue[:nd], s.fe[:nd]
-		for i, d := range em.dofs {
-			ue[i] = u[d]
-		}
-		var ke []float64
-		if k != nil {
-			ke = s.ke[:nd*nd]
-		}
-		var pe []PointResult
-		if pts != nil {
-			pe = pts[e]
-		}
-		if c := a.cached(e, nd); c != nil && pe == nil && a.m.eigen[a.m.mesh.Elements[e].Region] == ([4]float64{}) {
-			mulVec(fe, c, ue)
-			if ke != nil {
-				copy(ke, c)
+		var fe, ke []float64
+		if next < len(work) && work[next] == e {
+			fe = a.fe[next*maxElementDofs : next*maxElementDofs+nd]
+			if k != nil {
+				ke = a.ke[next*maxElementDofs*maxElementDofs : next*maxElementDofs*maxElementDofs+nd*nd]
 			}
-		} else if err := a.m.elementResponse(e, ue, fe, ke, pe, s); err != nil {
-			return err
+			next++
+		} else {
+			c := a.cached(e, nd)
+			ue := s.ue[:nd]
+			for i, d := range em.dofs {
+				ue[i] = u[d]
+			}
+			fe = s.fe[:nd]
+			mulVec(fe, c, ue)
+			ke = c
 		}
 		for i, d := range em.dofs {
 			fint[d] += fe[i]
@@ -163,6 +187,77 @@ func (a *assembler) assemble(u, fint []float64, k *sparse.Matrix, pts [][]PointR
 		}
 		if err := k.AddDense(a.eqIdx[e], ke); err != nil {
 			return fmt.Errorf("fem: element %d: %w", e, err)
+		}
+	}
+	return nil
+}
+
+// evaluate computes the response of the listed elements into a.fe and
+// a.ke (slot i for work[i]), on all cores when the list is long. The first
+// error in element order is returned.
+func (a *assembler) evaluate(work []int, u []float64, tangent bool, pts [][]PointResult) error {
+	if n := len(work) * maxElementDofs; cap(a.fe) < n {
+		a.fe = make([]float64, n)
+	}
+	if n := len(work) * maxElementDofs * maxElementDofs; tangent && cap(a.ke) < n {
+		a.ke = make([]float64, n)
+	}
+	a.fe = a.fe[:cap(a.fe)]
+	a.ke = a.ke[:cap(a.ke)]
+	errs := make([]error, len(work))
+	one := func(i int, s *scratch) {
+		e := work[i]
+		em := &a.maps[e]
+		nd := len(em.dofs)
+		ue := s.ue[:nd]
+		for j, d := range em.dofs {
+			ue[j] = u[d]
+		}
+		fe := a.fe[i*maxElementDofs : i*maxElementDofs+nd]
+		var ke []float64
+		if tangent {
+			ke = a.ke[i*maxElementDofs*maxElementDofs : i*maxElementDofs*maxElementDofs+nd*nd]
+		}
+		var pe []PointResult
+		if pts != nil {
+			pe = pts[e]
+		}
+		errs[i] = a.m.elementResponse(e, ue, fe, ke, pe, s)
+	}
+	workers := min(runtime.NumCPU(), len(work)/64+1)
+	if workers <= 1 {
+		for i := range work {
+			one(i, a.s)
+		}
+	} else {
+		var next atomic.Int64
+		var wg sync.WaitGroup
+		for w := 0; w < workers; w++ {
+			s := a.s
+			if w > 0 {
+				for len(a.scratch) < w {
+					a.scratch = append(a.scratch, newScratch())
+				}
+				s = a.scratch[w-1]
+			}
+			wg.Go(func() {
+				const chunk = 16
+				for {
+					lo := int(next.Add(chunk)) - chunk
+					if lo >= len(work) {
+						return
+					}
+					for i := lo; i < min(lo+chunk, len(work)); i++ {
+						one(i, s)
+					}
+				}
+			})
+		}
+		wg.Wait()
+	}
+	for _, err := range errs {
+		if err != nil {
+			return err
 		}
 	}
 	return nil
