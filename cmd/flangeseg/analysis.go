@@ -31,6 +31,7 @@ type segment struct {
 	shellE  float64
 	penalty float64
 	tie     fem.Dof // the bolt's lateral tie at the contact plane
+	laws    map[string]material.Law
 }
 
 // nearestOnSet is the node of a node set nearest to x (−1 if none).
@@ -149,7 +150,12 @@ func buildSegment(s *Spec, d Derived) (*segment, error) {
 	if s.Analysis.Plane == "strain" {
 		cond = material.PlaneStrain
 	}
-	m, err := fem.NewModel(msh, laws, fem.Options{Condition: cond})
+	g.laws = laws
+	opt := fem.Options{Condition: cond}
+	if s.Analysis.LargeDeformation {
+		opt.Kinematics = fem.FiniteStrain{}
+	}
+	m, err := fem.NewModel(msh, laws, opt)
 	if err != nil {
 		return nil, err
 	}
@@ -271,7 +277,11 @@ func (g *segment) contacts() error {
 	// friction coupling goes beside the symmetric tangent, for the
 	// solver's GMRES steps.
 	set := contact.Settings{Penalty: g.penalty, Friction: s.Contact.Friction, Tolerance: 1e-3,
-		SymmetricTangent: true, SmallSliding: true, NoSlidingStiffness: true}
+		SymmetricTangent: true, SmallSliding: !s.Analysis.LargeDeformation, NoSlidingStiffness: true,
+		// Finite sliding for large deformation: gap and slip in the
+		// current configuration; the geometric terms stay out of the
+		// tangent, which costs Newton its quadratic rate, not accuracy.
+		FrozenGeometry: s.Analysis.LargeDeformation}
 	stripWidth := func(x, _ float64) float64 {
 		if math.Abs(x) < s.Bolt.Hole/2 {
 			return d.HoleBandStrip

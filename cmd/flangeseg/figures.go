@@ -32,7 +32,9 @@ type jointFigures struct {
 	DisplacementPeakMM  float64 `json:"displacement_at_peak_mm"`
 	DisplacementEndMM   float64 `json:"displacement_at_end_mm"`
 	PenetrationMaxMM    float64 `json:"penetration_max_mm"`
-	FailureLocation     string  `json:"failure_location"`
+	FailureLocation     string  `json:"failure_location"` // the failure mechanism, from where plastic strain concentrates at the end
+	MaxPlasticStrain    float64 `json:"max_plastic_strain"`
+	MaxDamage           float64 `json:"max_damage"`
 	HandUltimateKN      float64 `json:"hand_ultimate_kN"`
 	HandUltimateBasis   string  `json:"hand_ultimate_basis"`
 	StubElongationPerKN float64 `json:"stub_elongation_per_kN_mm"`
@@ -87,6 +89,15 @@ func figures(g *segment, res *analysis) jointFigures {
 		if r.z/1e3 > f.PeakLoadKN {
 			f.PeakLoadKN, f.DisplacementPeakMM = r.z/1e3, r.u
 		}
+	}
+	if g.model.HasHistory() && len(rows) > 0 {
+		last := rows[len(rows)-1]
+		prying := 0.0
+		if last.z > 0 {
+			prying = last.fs / last.z
+		}
+		f.FailureLocation = mechanism(last.sitePlastic, prying)
+		f.MaxPlasticStrain, f.MaxDamage = last.maxPlastic, last.maxDamage
 	}
 	if len(rows) < 2 {
 		return f

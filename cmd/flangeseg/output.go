@@ -35,7 +35,7 @@ func historyTable(g *segment, res *analysis) (post.Table, error) {
 		for _, f := range r.zoneForce {
 			row = append(row, f/1e3)
 		}
-		row = append(row, 0, 0, float64(r.iterations))
+		row = append(row, r.maxPlastic, r.maxDamage, float64(r.iterations))
 		if err := t.Append(row...); err != nil {
 			return t, err
 		}
@@ -154,7 +154,7 @@ func writePlots(dir string, g *segment, res *analysis) error {
 	zh, diagram, tri := handCurves(g.hand, math.Max(rows[len(rows)-1].z, 0))
 	plots := map[string]post.Plot{
 		"Z_u": {Title: "Segment force against loaded-edge displacement", XLabel: "u [mm]", YLabel: "Z [kN]",
-			Series: []post.Series{{Name: "FE", X: u, Y: z}}},
+			Series: []post.Series{{Name: "FE", X: u, Y: z}}, Markers: peakMarker(rows)},
 		"Fs_Z": {Title: "Bolt force function", XLabel: "Z [kN]", YLabel: "F_s [kN]",
 			Series: []post.Series{{Name: "FE", X: z, Y: fs},
 				{Name: "joint diagram (VDI 2230)", X: zh, Y: diagram, Dashed: true},
@@ -179,6 +179,18 @@ func writePlots(dir string, g *segment, res *analysis) error {
 		}
 	}
 	return nil
+}
+
+// peakMarker marks the largest segment force of the run.
+func peakMarker(rows []historyRow) []post.Marker {
+	best := 0
+	for i, r := range rows {
+		if r.z > rows[best].z {
+			best = i
+		}
+	}
+	r := rows[best]
+	return []post.Marker{{Name: fmt.Sprintf("peak %.0f kN", r.z/1e3), X: r.u, Y: r.z / 1e3}}
 }
 
 // pressurePlot draws the face pressure at preload and at three load
@@ -215,6 +227,7 @@ func writeFields(dir string, res *analysis) error {
 			return err
 		}
 		point = append(point, contactFields(len(st.solution.Model().Mesh().Nodes), st.contacts)...)
+		cell = append(cell, historyFields(st.history, len(st.solution.Model().Mesh().Elements))...)
 		name := fmt.Sprintf("state_%03d.vtu", i)
 		mesh := st.solution.Model().Mesh()
 		if err := post.WriteVTU(filepath.Join(dir, "fields", name), post.GridFromMesh(mesh), point, cell); err != nil {
@@ -223,6 +236,21 @@ func writeFields(dir string, res *analysis) error {
 		series = append(series, post.SeriesEntry{Time: float64(st.row.increment), File: filepath.Join("fields", name)})
 	}
 	return post.WritePVD(filepath.Join(dir, "fields.pvd"), series)
+}
+
+// historyFields are the cell means of equivalent plastic strain and damage
+// indicator over each element's integration points (zero where elastic).
+func historyFields(h pointScalars, cells int) []post.Field {
+	plastic, damage := make([]float64, cells), make([]float64, cells)
+	for e := range h.plastic {
+		if n := len(h.plastic[e]); n > 0 {
+			for ip := range h.plastic[e] {
+				plastic[e] += h.plastic[e][ip] / float64(n)
+				damage[e] += h.damage[e][ip] / float64(n)
+			}
+		}
+	}
+	return []post.Field{{Name: "plastic_strain", Components: 1, Values: plastic}, {Name: "damage", Components: 1, Values: damage}}
 }
 
 // contactFields carries contact pressure and gap to point data (zero away

@@ -25,6 +25,13 @@ type historyRow struct {
 	penetration float64 // largest penetration of any pair, mm
 	zFixed      float64 // z reaction at the fixed shell end, N (equilibrium check)
 	iterations  int
+	// Yielding (zero with elastic laws): largest equivalent plastic
+	// strain and damage indicator anywhere, per failure site, and the
+	// largest damage in the bolt with where it is.
+	maxPlastic, maxDamage float64
+	sitePlastic           map[string]float64
+	boltDamage            float64
+	boltDamageWhere       string
 }
 
 // state is a converged state kept for field output.
@@ -33,6 +40,7 @@ type state struct {
 	row      historyRow
 	solution *fem.Solution
 	contacts map[string][]contact.NodeResult
+	history  pointScalars // plastic strain and damage per point (nil when elastic)
 }
 
 // analysis is what a run produced, up to its last converged increment.
@@ -101,6 +109,10 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		peak = math.Max(peak, row.z)
 		if peak > 0 && row.z < (1-ld.StopDrop)*peak {
 			res.ending = fmt.Sprintf("segment force fell %.0f %% below its peak", 100*ld.StopDrop)
+			return true, nil
+		}
+		if row.boltDamage >= 1 {
+			res.ending = fmt.Sprintf("bolt rupture: damage indicator D = %.2f ≥ 1 in the %s", row.boltDamage, row.boltDamageWhere)
 			return true, nil
 		}
 		return false, nil
@@ -229,6 +241,15 @@ func (g *segment) record(s *fem.Solver, inc int, stage string, v0 float64, its i
 	for _, p := range []*contact.Pair{g.faces, g.head, g.nut} {
 		row.penetration = math.Max(row.penetration, p.MaxPenetration(cur))
 	}
+	if g.model.HasHistory() {
+		pts, err := s.Points()
+		if err != nil {
+			return row, err
+		}
+		ps := g.readPlastic(pts)
+		row.maxPlastic, row.maxDamage, row.sitePlastic = ps.maxPlastic, ps.maxDmg, ps.site
+		row.boltDamage, row.boltDamageWhere = ps.boltDamage, ps.boltDamageWhere
+	}
 	return row, nil
 }
 
@@ -237,8 +258,19 @@ func (g *segment) keepState(s *fem.Solver, res *analysis, label string, row hist
 	if err != nil {
 		return err
 	}
+	var scalars pointScalars
+	if g.model.HasHistory() {
+		// The points' history aliases the model's storage, which the next
+		// evaluation overwrites: keep the scalars the output needs.
+		scalars = g.readPlastic(sol.Points).points
+	}
+	if g.spec.Analysis.LargeDeformation {
+		if sol.Points, err = sol.CauchyPoints(); err != nil {
+			return err
+		}
+	}
 	cur := s.Current()
-	res.states = append(res.states, state{label: label, row: row, solution: sol, contacts: map[string][]contact.NodeResult{
+	res.states = append(res.states, state{label: label, row: row, solution: sol, history: scalars, contacts: map[string][]contact.NodeResult{
 		"faces": g.faces.NodeResults(cur),
 		"head":  g.head.NodeResults(cur),
 		"nut":   g.nut.NodeResults(cur),
