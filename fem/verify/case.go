@@ -65,6 +65,8 @@ func Cases() []Case {
 		{"contact-patch", "contact patch test (Taylor & Papadopoulos 1991)", runContactPatch},
 		{"elastica", "Bisshopp & Drucker (1945): elastica, elliptic integrals", runElastica},
 		{"rotation", "objectivity requirement (any nonlinear FE text)", runRotation},
+		{"hill", "R. Hill, The Mathematical Theory of Plasticity (1950): thick tube, Mises, plane strain", runHill},
+		{"uniaxial", "the input curve itself (uniaxial bar, three kinematic settings)", runUniaxial},
 	}
 }
 
