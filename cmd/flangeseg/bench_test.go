@@ -49,3 +49,33 @@ func BenchmarkDemoCommand(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkFailure is the flat demo joint loaded towards failure:
+// elastoplastic materials, large deformation, contact, 48 increments to
+// 6 mm, no file output. Run it with -benchtime 1x.
+func BenchmarkFailure(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		spec, err := decodeSpec(demoModels()[0].Data)
+		if err != nil {
+			b.Fatal(err)
+		}
+		spec.Analysis.Materials, spec.Analysis.LargeDeformation = elastoplastic, true
+		spec.Load.MaxDisplacement, spec.Load.Increments = 6, 48
+		g, err := buildSegment(spec, spec.derive())
+		if err != nil {
+			b.Fatal(err)
+		}
+		res, err := g.analyse(analyseOptions{})
+		if err != nil || res.failure != nil {
+			b.Fatal(err, res.failure)
+		}
+		tm := res.timing
+		b.ReportMetric(float64(len(res.rows)-1), "increments")
+		b.ReportMetric(float64(tm.Iterations)/float64(len(res.rows)-1), "iterations/increment")
+		b.ReportMetric(tm.Assembly.Seconds(), "assembly-s")
+		b.ReportMetric(tm.Factorization.Seconds(), "factor-s")
+		b.ReportMetric(tm.Solve.Seconds(), "solve-s")
+		b.ReportMetric(tm.Contact.Seconds(), "contact-s")
+		b.ReportMetric(figures(g, res).PeakLoadKN, "peak-kN")
+	}
+}

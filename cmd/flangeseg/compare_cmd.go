@@ -2,7 +2,6 @@ package main
 
 import (
 	"encoding/csv"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -72,16 +71,8 @@ func compareJobs(paths []string, dir string, stderr io.Writer) ([]modelJob, []st
 	used := map[string]int{}
 	ok := true
 	for _, path := range paths {
-		spec, err := loadSpec(path)
-		var me *modelError
-		switch {
-		case errors.As(err, &me):
-			fmt.Fprintln(stderr, err)
-			fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.errs), plural(len(me.errs), "error", "errors"))
-			ok = false
-			continue
-		case err != nil:
-			fmt.Fprintf(stderr, "flangeseg compare: %v\n", err)
+		spec, loaded := loadOrReport(path, "compare", stderr)
+		if !loaded {
 			ok = false
 			continue
 		}

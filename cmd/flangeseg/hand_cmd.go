@@ -2,7 +2,6 @@ package main
 
 import (
 	"encoding/json"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -55,15 +54,8 @@ Flags:
 		return exitBadInput
 	}
 	path := fs.Arg(0)
-	s, err := loadSpec(path)
-	var me *modelError
-	switch {
-	case errors.As(err, &me):
-		fmt.Fprintln(stderr, err)
-		fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.errs), plural(len(me.errs), "error", "errors"))
-		return exitBadInput
-	case err != nil:
-		fmt.Fprintf(stderr, "flangeseg hand: %v\n", err)
+	s, ok := loadOrReport(path, "hand", stderr)
+	if !ok {
 		return exitBadInput
 	}
 	d := s.derive()

@@ -485,15 +485,8 @@ func runValidate(args []string, stdout, stderr io.Writer) int {
 		return exitBadInput
 	}
 	path := fs.Arg(0)
-	s, err := loadSpec(path)
-	var me *modelError
-	switch {
-	case errors.As(err, &me):
-		fmt.Fprintln(stderr, err)
-		fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.errs), plural(len(me.errs), "error", "errors"))
-		return exitBadInput
-	case err != nil:
-		fmt.Fprintf(stderr, "flangeseg validate: %v\n", err)
+	s, ok := loadOrReport(path, "validate", stderr)
+	if !ok {
 		return exitBadInput
 	}
 	if err := printModel(stdout, path, s); err != nil {
@@ -501,6 +494,24 @@ func runValidate(args []string, stdout, stderr io.Writer) int {
 		return exitBadInput
 	}
 	return exitOK
+}
+
+// loadOrReport loads a model file; if it cannot, it writes every error
+// (an invalid model: each broken rule and their count) to stderr and
+// reports false.
+func loadOrReport(path, command string, stderr io.Writer) (*Spec, bool) {
+	s, err := loadSpec(path)
+	var me *modelError
+	switch {
+	case errors.As(err, &me):
+		fmt.Fprintln(stderr, err)
+		fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.errs), plural(len(me.errs), "error", "errors"))
+		return nil, false
+	case err != nil:
+		fmt.Fprintf(stderr, "flangeseg %s: %v\n", command, err)
+		return nil, false
+	}
+	return s, true
 }
 
 func plural(n int, one, many string) string {
