@@ -55,6 +55,10 @@ Flags:
 		return code
 	}
 	compareTable(stdout, names, sums)
+	if err := writeCompareReport(*outDir, names, jobs, sums); err != nil {
+		fmt.Fprintf(stderr, "flangeseg compare: writing the report: %v\n", err)
+		return exitAnalysis
+	}
 	if err := writeComparison(*outDir, names, jobs, sums); err != nil {
 		fmt.Fprintf(stderr, "flangeseg compare: writing the comparison: %v\n", err)
 		return exitAnalysis

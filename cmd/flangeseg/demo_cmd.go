@@ -59,6 +59,10 @@ Flags:
 		return code
 	}
 	compareTable(stdout, []string{"flat face", "defined bands"}, sums)
+	if err := writeCompareReport(*outDir, []string{"flat face", "defined bands"}, jobs, sums); err != nil {
+		fmt.Fprintf(stderr, "flangeseg demo: writing the report: %v\n", err)
+		return exitAnalysis
+	}
 	return exitOK
 }
 

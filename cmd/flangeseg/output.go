@@ -129,6 +129,9 @@ func writeResults(dir, modelPath string, g *segment, res *analysis) (summary, er
 	if err := post.WriteJSON(filepath.Join(dir, "summary.json"), sum); err != nil {
 		return sum, err
 	}
+	if err := writeRunReport(dir, modelPath, g, res, sum); err != nil {
+		return sum, err
+	}
 	if err := writePlots(dir, g, res); err != nil {
 		return sum, err
 	}
