@@ -58,7 +58,7 @@ func runFatigue(args []string, stdout, stderr io.Writer) int {
 	fs.StringVar(&f.out, "o", "", "write the results into `DIR` (default: the model file's name without .toml, plus _fatigue)")
 	fs.StringVar(&f.curve, "sn-curve", curveEN1993Bolt, "S–N curve: "+curveEN1993Bolt+" or a CSV `FILE` of points cycles,stress_range_MPa")
 	fs.StringVar(&f.stress, "stress", stressAxialBend, "FE bolt stress: "+stressAxialBend+" or "+stressAxial)
-	fs.Float64Var(&f.gammaMf, "gamma-mf", 1.15, "partial factor γ_Mf on the fatigue strength (EN 1993-1-9 Table 3.1: 1.00 to 1.35)")
+	fs.Float64Var(&f.gammaMf, "gamma-mf", 0, "partial factor γ_Mf on the fatigue strength (EN 1993-1-9 Table 3.1: 1.00 to 1.35); overrides [fatigue] gamma_mf of the model (default 1.15)")
 	fs.Float64Var(&f.refCycles, "reference-cycles", 2e6, "reference number of cycles `N_ref` of the damage-equivalent stress range")
 	fs.Float64Var(&f.refSlope, "reference-slope", 3, "slope `m` of the damage-equivalent stress range")
 	fs.Float64Var(&f.binWidth, "bin-width", 0, "width of the stress-range bins in the outputs, `MPa` (a multiple of 0.1; 0: chosen for at most 25 bins)")
@@ -82,6 +82,9 @@ func runFatigue(args []string, stdout, stderr io.Writer) int {
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitBadInput
+	}
+	if f.gammaMf == 0 {
+		f.gammaMf = spec.Fatigue.GammaMf
 	}
 	job, err := newFatigueJob(spec, path, f)
 	if err != nil {
@@ -207,7 +210,7 @@ func (f fatigueFlags) check() error {
 	if f.stress != stressAxialBend && f.stress != stressAxial {
 		errs = append(errs, fmt.Errorf("flangeseg fatigue: --stress = %q: must be %q or %q", f.stress, stressAxialBend, stressAxial))
 	}
-	if !finite(f.gammaMf) || f.gammaMf < 1 {
+	if f.gammaMf != 0 && (!finite(f.gammaMf) || f.gammaMf < 1) {
 		bad("gamma-mf", f.gammaMf, "must be a finite number ≥ 1 (EN 1993-1-9 Table 3.1 recommends 1.00 to 1.35)")
 	}
 	if !finite(f.refCycles) || !(f.refCycles > 0) {

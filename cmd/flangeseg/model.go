@@ -34,7 +34,16 @@ type Spec struct {
 	Load      LoadSpec                `toml:"load"`
 	Mesh      MeshSpec                `toml:"mesh"`
 	Analysis  AnalysisSpec            `toml:"analysis"`
+	Fatigue   FatigueSpec             `toml:"fatigue"`
 	Materials map[string]MaterialSpec `toml:"materials,omitempty"`
+}
+
+// FatigueSpec holds what the bolt fatigue check (flangeseg fatigue) takes
+// from the model: the partial factor γ_Mf on the fatigue strength
+// (EN 1993-1-9 Table 3.1 recommends 1.00 to 1.35 by assessment method and
+// consequence of failure; the National Annex and the project decide).
+type FatigueSpec struct {
+	GammaMf float64 `toml:"gamma_mf"`
 }
 
 // TowerSpec is the tower at the joint.
@@ -615,6 +624,7 @@ func keyDefaults() []keyDefault {
 		{"analysis.plane", `"stress"`, func(s *Spec) { s.Analysis.Plane = planeStress }},
 		{"analysis.large_deformation", "false", nil},
 		{"analysis.ring_springs", "true", func(s *Spec) { s.Analysis.RingSprings = true }},
+		{"fatigue.gamma_mf", "1.15", func(s *Spec) { s.Fatigue.GammaMf = 1.15 }},
 		{"analysis.materials", `"elastoplastic"`, func(s *Spec) { s.Analysis.Materials = elastoplastic }},
 		{"analysis.bolt_strength", `"minimum"`, func(s *Spec) { s.Analysis.BoltStrength = boltMinimum }},
 		{"analysis.necking_weight", "0.5", func(s *Spec) {

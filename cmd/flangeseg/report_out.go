@@ -214,6 +214,7 @@ func inputKeys() map[string]inputKey {
 		"analysis.materials":         {"", "material behaviour", "", 0},
 		"analysis.bolt_strength":     {"", "bolt stress–strain curve (ISO 898-1 minimum or EN 1993-1-8 nominal)", "", 0},
 		"analysis.necking_weight":    {"w", "weight of the curve past necking (Ling 1996)", one, 0},
+		"fatigue.gamma_mf":           {"γ_Mf", "partial factor on the fatigue strength (EN 1993-1-9)", one, 0},
 	}
 }
 
@@ -221,7 +222,7 @@ func inputKeys() map[string]inputKey {
 var inputCaptions = map[string]string{
 	"tower": "Tower", "shell": "Shell", "flange": "Flange", "bolt": "Bolt, washers and nut",
 	"contact": "Contact faces", "preload": "Preload", "load": "Load (tension stage)",
-	"mesh": "Mesh", "analysis": "Analysis",
+	"mesh": "Mesh", "analysis": "Analysis", "fatigue": "Bolt fatigue",
 }
 
 // keySources says where each key's value comes from: the model file or

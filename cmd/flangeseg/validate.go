@@ -390,6 +390,7 @@ func (s *Spec) checkMesh(c *checker) {
 	c.oneOf("mesh.element", m.Element, elementQuad8, elementQuad4)
 	c.oneOf("analysis.plane", s.Analysis.Plane, planeStress, planeStrain)
 	c.oneOf("analysis.materials", s.Analysis.Materials, elastoplastic, elasticOnly)
+	c.number("fatigue.gamma_mf", s.Fatigue.GammaMf, s.Fatigue.GammaMf >= 1, "must be ≥ 1 (EN 1993-1-9 Table 3.1 recommends 1.00 to 1.35)")
 	c.oneOf("analysis.bolt_strength", s.Analysis.BoltStrength, boltMinimum, boltNominal)
 	if w := s.Analysis.NeckingWeight; w != nil {
 		c.number("analysis.necking_weight", *w, *w >= 0 && *w <= 1, "must lie in [0, 1]")
