@@ -11,7 +11,11 @@
 // strain and how stress becomes nodal force and tangent). Assembly is written
 // once, in residual form, so the same code serves a linear solve and the
 // Newton iterations of a nonlinear one: for a linear model one iteration
-// converges exactly.
+// converges exactly. Kinematics are SmallStrain (ε = B·u) or FiniteStrain
+// (total Lagrangian in logarithmic strain space, Miehe, Apel & Lambrecht
+// 2002; Solution.CauchyPoints gives Cauchy stress). Laws with history get
+// a committed and a trial state per integration point, committed by
+// Solver.Commit.
 //
 // Units are mm, N and MPa. In plane stress and plane strain every element
 // carries its region's out-of-plane thickness; in an axisymmetric model x is
