@@ -178,6 +178,11 @@ func buildSegment(s *Spec, d Derived) (*segment, error) {
 	if !(g.slice > 0) {
 		return nil, fmt.Errorf("mesh: the preload slice of the bolt is missing")
 	}
+	if !(d.ShellYield > 0 && d.FlangeYield > 0) {
+		// Every run reports the hand methods beside the FE; they need f_y.
+		return nil, fmt.Errorf("hand methods: shell f_y = %s MPa, flange f_y = %s MPa: both must be > 0; a [materials] entry without a curve has none — give it a curve, or use a built-in grade with analysis.materials = %q for a linear elastic analysis",
+			fnum(d.ShellYield), fnum(d.FlangeYield), elasticOnly)
+	}
 	if g.hand, err = handcalc.Analyze(s.handJoint(d), handcalc.DefaultParams()); err != nil {
 		return nil, fmt.Errorf("hand methods: %w", err)
 	}
