@@ -146,42 +146,20 @@ func column(rows []historyRow, q func(historyRow) float64) []float64 {
 	return out
 }
 
+// curveFiles name the files of the curves of noteCurves, in its order.
+var curveFiles = []string{"Z_u", "Fs_Z", "Ms_Z", "gap_Z", "contact_force_Z"}
+
 func writePlots(dir string, g *segment, res *analysis) error {
-	rows := res.rows
-	if len(rows) < 2 {
+	curves := noteCurves(g, res.rows, figures(g, res))
+	if curves == nil {
 		return nil
 	}
-	z := column(rows, func(r historyRow) float64 { return r.z / 1e3 })
-	u := column(rows, func(r historyRow) float64 { return r.u })
-	fs := column(rows, func(r historyRow) float64 { return r.fs / 1e3 })
-	zh, diagram, tri := handCurves(g.hand, math.Max(rows[len(rows)-1].z, 0))
-	plots := map[string]post.Plot{
-		"Z_u": {Title: "Segment force against loaded-edge displacement", XLabel: "u [mm]", YLabel: "Z [kN]",
-			Series: []post.Series{{Name: "FE", X: u, Y: z}}, Markers: peakMarker(rows)},
-		"Fs_Z": {Title: "Bolt force function", XLabel: "Z [kN]", YLabel: "F_s [kN]",
-			Series: []post.Series{{Name: "FE", X: z, Y: fs},
-				{Name: "joint diagram (VDI 2230)", X: zh, Y: diagram, Dashed: true},
-				{Name: "trilinear (Schmidt/Neuhaus)", X: zh, Y: tri, Dashed: true}}},
-		"Ms_Z": {Title: "Bolt bending moment", XLabel: "Z [kN]", YLabel: "M_s [kN·m]",
-			Series: []post.Series{
-				{Name: "at the contact plane", X: z, Y: column(rows, func(r historyRow) float64 { return r.mInterface / 1e6 })},
-				{Name: "under the head", X: z, Y: column(rows, func(r historyRow) float64 { return r.mHead / 1e6 }), Dashed: true}}},
-		"gap_Z": {Title: "Opening at the shell-side corner", XLabel: "Z [kN]", YLabel: "gap [mm]",
-			Series: []post.Series{{Name: "x = b + t/2", X: z, Y: column(rows, func(r historyRow) float64 { return r.gapEdge })}}},
-	}
-	zones := post.Plot{Title: "Contact force per zone", XLabel: "Z [kN]", YLabel: "contact force [kN]"}
-	for i, zr := range g.zones {
-		zones.Series = append(zones.Series, post.Series{Name: zr.name,
-			X: z, Y: column(rows, func(r historyRow) float64 { return r.zoneForce[i] / 1e3 })})
-	}
-	plots["contact_force_Z"] = zones
-	plots["contact_pressure"] = pressurePlot(res)
-	for _, name := range []string{"Z_u", "Fs_Z", "Ms_Z", "gap_Z", "contact_force_Z", "contact_pressure"} {
-		if err := post.WritePlot(filepath.Join(dir, name), plots[name]); err != nil {
+	for i, name := range curveFiles {
+		if err := post.WritePlot(filepath.Join(dir, name), curves[i]); err != nil {
 			return err
 		}
 	}
-	return nil
+	return post.WritePlot(filepath.Join(dir, "contact_pressure"), pressurePlot(res))
 }
 
 // peakMarker marks the largest segment force of the run.

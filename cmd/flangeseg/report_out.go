@@ -686,8 +686,9 @@ func (n *runNote) notes() []string {
 	return out
 }
 
-// noteCurves are the load–response curves of writePlots, with the
-// opening load marked on the bolt-force function.
+// noteCurves are the load–response curves (the files of curveFiles and
+// the report's figures), with the peak marked on Z–u and the opening load
+// on the bolt-force function.
 func noteCurves(g *segment, rows []historyRow, j jointFigures) []post.Plot {
 	if len(rows) < 2 {
 		return nil
@@ -712,7 +713,7 @@ func noteCurves(g *segment, rows []historyRow, j jointFigures) []post.Plot {
 	}
 	return []post.Plot{
 		{Title: "Segment force against loaded-edge displacement", XLabel: "u [mm]", YLabel: "Z [kN]",
-			Series: []post.Series{{Name: "FE", X: u, Y: z}}},
+			Series: []post.Series{{Name: "FE", X: u, Y: z}}, Markers: peakMarker(rows)},
 		bolt,
 		{Title: "Bolt bending moment", XLabel: "Z [kN]", YLabel: "M_s [kN·m]",
 			Series: []post.Series{
