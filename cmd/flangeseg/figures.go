@@ -1,6 +1,7 @@
 package main
 
 import (
+	"fmt"
 	"math"
 
 	"flangeseg/post/handcalc"
@@ -28,15 +29,20 @@ type jointFigures struct {
 	LoadFactorTangentZero float64  `json:"load_factor_tangent_at_zero"`
 	LoadFactorToReference *float64 `json:"load_factor_secant_to_reference"`
 
-	PeakLoadKN          float64 `json:"peak_load_kN"`
-	DisplacementPeakMM  float64 `json:"displacement_at_peak_mm"`
-	DisplacementEndMM   float64 `json:"displacement_at_end_mm"`
-	PenetrationMaxMM    float64 `json:"penetration_max_mm"`
-	FailureLocation     string  `json:"failure_location"` // the failure mechanism, from where plastic strain concentrates at the end
-	MaxPlasticStrain    float64 `json:"max_plastic_strain"`
-	MaxDamage           float64 `json:"max_damage"`
-	HandUltimateKN      float64 `json:"hand_ultimate_kN"`
-	HandUltimateBasis   string  `json:"hand_ultimate_basis"`
+	PeakLoadKN         float64 `json:"peak_load_kN"`
+	DisplacementPeakMM float64 `json:"displacement_at_peak_mm"`
+	DisplacementEndMM  float64 `json:"displacement_at_end_mm"`
+	PenetrationMaxMM   float64 `json:"penetration_max_mm"`
+	FailureLocation    string  `json:"failure_location"` // the failure mechanism, from where plastic strain concentrates at the end
+	MaxPlasticStrain   float64 `json:"max_plastic_strain"`
+	MaxDamage          float64 `json:"max_damage"`
+	HandUltimateKN     float64 `json:"hand_ultimate_kN"`
+	HandUltimateBasis  string  `json:"hand_ultimate_basis"`
+	// FEVersusHand states how the FE ultimate load compares with the hand
+	// methods' best estimate, in words and as the ratio of the FE peak to
+	// it (0 when the FE side is not assessed).
+	FEVersusHand        string  `json:"fe_versus_hand"`
+	FEToHandUltimate    float64 `json:"fe_peak_over_hand_ultimate"`
 	StubElongationPerKN float64 `json:"stub_elongation_per_kN_mm"`
 }
 
@@ -88,6 +94,17 @@ func figures(g *segment, res *analysis) jointFigures {
 		f.PenetrationMaxMM = math.Max(f.PenetrationMaxMM, r.penetration)
 		if r.z/1e3 > f.PeakLoadKN {
 			f.PeakLoadKN, f.DisplacementPeakMM = r.z/1e3, r.u
+		}
+	}
+	f.FEVersusHand = "not assessed: linear elastic materials (no FE ultimate load)"
+	if g.model.HasHistory() && len(rows) > 0 && f.HandUltimateKN > 0 {
+		f.FEToHandUltimate = f.PeakLoadKN / f.HandUltimateKN
+		rising := len(rows) > 1 && rows[len(rows)-1].z >= rows[len(rows)-2].z
+		switch {
+		case rising:
+			f.FEVersusHand = fmt.Sprintf("FE largest Z %.1f kN is %.2f × the hand ultimate load %.1f kN, and still rising at the end: a lower bound of the FE ultimate load", f.PeakLoadKN, f.FEToHandUltimate, f.HandUltimateKN)
+		default:
+			f.FEVersusHand = fmt.Sprintf("FE peak %.1f kN is %.2f × the hand ultimate load %.1f kN", f.PeakLoadKN, f.FEToHandUltimate, f.HandUltimateKN)
 		}
 	}
 	if g.model.HasHistory() && len(rows) > 0 {

@@ -191,6 +191,10 @@ func printSummary(w io.Writer, s summary, dir string, took time.Duration) {
 	fmt.Fprintf(w, "  decompression load    %s\n", kNOr(j.DecompressionKN))
 	fmt.Fprintf(w, "  largest Z             %.1f kN at u = %.3f mm (%s)\n", j.PeakLoadKN, j.DisplacementPeakMM, s.Ending)
 	fmt.Fprintf(w, "  hand ultimate load    %.1f kN (%s)\n", j.HandUltimateKN, j.HandUltimateBasis)
+	fmt.Fprintf(w, "  FE versus hand        %s\n", j.FEVersusHand)
+	if s.Joint.FailureLocation != "" {
+		fmt.Fprintf(w, "  failure mechanism     %s\n", j.FailureLocation)
+	}
 	if v := s.Verdict; v != nil {
 		for _, l := range v.Lines {
 			fmt.Fprintf(w, "  hand utilisation      %.3f of Z_u = %.1f kN for Z_Ed = %.1f kN, %s (%s)\n", l.Utilisation, l.CapacityKN, v.DesignForceKN, l.Status, l.Method)
