@@ -395,3 +395,36 @@ func TestThreadTrend(t *testing.T) {
 		t.Errorf("displacement at the end: full thread %.2f mm, partial %.2f mm: want the full thread's larger", full.end, partial.end)
 	}
 }
+
+// Mode A (hand-methods issue; Petersen, Stahlbau; CHECKS.md: mode A needs a
+// shell that carries Z·b): with a very stiff, strong shell and flange and
+// the loaded end's rotation fixed, the bolt fails without prying and the
+// FE peak segment force lies within 10 % of the bolt's tensile capacity
+// A_s·f_ub (EN 1993-1-8 nominal f_ub, the curve the model uses).
+func TestModeA(t *testing.T) {
+	if testing.Short() {
+		t.Skip("an analysis to failure")
+	}
+	spec, err := loadSpec(filepath.Join("..", "..", "testdata", "mode_a.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := spec.derive()
+	g, err := buildSegment(spec, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := g.analyse(analyseOptions{})
+	if err != nil || res.failure != nil {
+		t.Fatal(err, res.failure)
+	}
+	f := figures(g, res)
+	capacity := d.StressArea * d.Fub / 1e3
+	t.Logf("FE peak %.1f kN at %.2f mm, A_s·f_ub = %.1f kN (ratio %.3f); %s; %s", f.PeakLoadKN, f.DisplacementPeakMM, capacity, f.PeakLoadKN/capacity, res.ending, f.FailureLocation)
+	if e := math.Abs(f.PeakLoadKN-capacity) / capacity; e > 0.10 {
+		t.Errorf("FE peak %.1f kN is %.1f %% off A_s·f_ub = %.1f kN (limit 10 %%)", f.PeakLoadKN, 100*e, capacity)
+	}
+	if !strings.Contains(f.FailureLocation, "mode A") {
+		t.Errorf("mechanism %q: want the bolt alone (mode A)", f.FailureLocation)
+	}
+}
