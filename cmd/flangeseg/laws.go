@@ -59,9 +59,13 @@ func (s *Spec) law(name string, t float64, bolt bool) (material.Law, error) {
 	if w := s.Analysis.NeckingWeight; w != nil {
 		necking.Weight = *w
 	}
-	damage := material.StructuralSteelDamage()
+	alpha, beta := s.Analysis.DamageAlphaSteel, s.Analysis.DamageBetaSteel
 	if bolt {
-		damage = material.BoltSteelDamage()
+		alpha, beta = s.Analysis.DamageAlphaBolt, s.Analysis.DamageBetaBolt
+	}
+	damage, err := material.NewDuctileDamage(alpha, beta)
+	if err != nil {
+		return nil, err
 	}
 	var h material.Hardening
 	switch m, user := s.Materials[name]; {

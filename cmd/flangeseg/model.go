@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"errors"
+	"flangeseg/material"
 	"fmt"
 	"math"
 	"os"
@@ -166,6 +167,13 @@ type AnalysisSpec struct {
 	// NeckingWeight is Ling's (1996) weight w between the linear and the
 	// power-law extension of a curve past necking, in [0, 1].
 	NeckingWeight *float64 `toml:"necking_weight,omitempty"`
+	// The ductile damage indicator's fracture strain ε_f = α·exp(−β·η)
+	// per material family: structural steels (shell, flange) and bolt
+	// steels. Zero values take the family defaults of package material.
+	DamageAlphaSteel float64 `toml:"damage_alpha_steel,omitempty"`
+	DamageBetaSteel  float64 `toml:"damage_beta_steel,omitempty"`
+	DamageAlphaBolt  float64 `toml:"damage_alpha_bolt,omitempty"`
+	DamageBetaBolt   float64 `toml:"damage_beta_bolt,omitempty"`
 }
 
 // MaterialSpec is a material the file defines. Without Curve it is linear
@@ -627,11 +635,21 @@ func keyDefaults() []keyDefault {
 		{"fatigue.gamma_mf", "1.15", func(s *Spec) { s.Fatigue.GammaMf = 1.15 }},
 		{"analysis.materials", `"elastoplastic"`, func(s *Spec) { s.Analysis.Materials = elastoplastic }},
 		{"analysis.bolt_strength", `"minimum"`, func(s *Spec) { s.Analysis.BoltStrength = boltMinimum }},
+		{"analysis.damage_alpha_steel", "≈ 2.10 (from a 50 % reduction of area)", func(s *Spec) { defaultDamage(&s.Analysis.DamageAlphaSteel, material.StructuralSteelDamage().Alpha) }},
+		{"analysis.damage_beta_steel", "1.5", func(s *Spec) { defaultDamage(&s.Analysis.DamageBetaSteel, material.StructuralSteelDamage().Beta) }},
+		{"analysis.damage_alpha_bolt", "≈ 1.76 (from a 44 % reduction of area)", func(s *Spec) { defaultDamage(&s.Analysis.DamageAlphaBolt, material.BoltSteelDamage().Alpha) }},
+		{"analysis.damage_beta_bolt", "1.5", func(s *Spec) { defaultDamage(&s.Analysis.DamageBetaBolt, material.BoltSteelDamage().Beta) }},
 		{"analysis.necking_weight", "0.5", func(s *Spec) {
 			if s.Analysis.NeckingWeight == nil {
 				s.Analysis.NeckingWeight = ptr(0.5)
 			}
 		}},
+	}
+}
+
+func defaultDamage(v *float64, d float64) {
+	if *v == 0 {
+		*v = d
 	}
 }
 

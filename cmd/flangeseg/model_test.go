@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"flangeseg/material"
 	"math"
 	"reflect"
 	"strings"
@@ -154,7 +155,9 @@ func TestDefaults(t *testing.T) {
 	want.Preload = PreloadSpec{Fraction: ptr(1.0)}
 	want.Load = LoadSpec{MaxDisplacement: 1.2, Increments: 40, StopDrop: 0.2, EndRotation: "free"}
 	want.Mesh = MeshSpec{Size: 9, Refine: 0.3, Element: "quad8"} // round(28/3)
-	want.Analysis = AnalysisSpec{Plane: "stress", RingSprings: true, Materials: "elastoplastic", BoltStrength: "minimum", NeckingWeight: ptr(0.5)}
+	want.Analysis = AnalysisSpec{Plane: "stress", RingSprings: true, Materials: "elastoplastic", BoltStrength: "minimum", NeckingWeight: ptr(0.5),
+		DamageAlphaSteel: material.StructuralSteelDamage().Alpha, DamageBetaSteel: material.StructuralSteelDamage().Beta,
+		DamageAlphaBolt: material.BoltSteelDamage().Alpha, DamageBetaBolt: material.BoltSteelDamage().Beta}
 	if !reflect.DeepEqual(*s, want) {
 		t.Errorf("defaults:\n got %+v\nwant %+v", *s, want)
 	}

@@ -392,6 +392,13 @@ func (s *Spec) checkMesh(c *checker) {
 	c.oneOf("analysis.materials", s.Analysis.Materials, elastoplastic, elasticOnly)
 	c.number("fatigue.gamma_mf", s.Fatigue.GammaMf, s.Fatigue.GammaMf >= 1, "must be ≥ 1 (EN 1993-1-9 Table 3.1 recommends 1.00 to 1.35)")
 	c.oneOf("analysis.bolt_strength", s.Analysis.BoltStrength, boltMinimum, boltNominal)
+	for _, k := range []struct {
+		key string
+		v   float64
+	}{{"analysis.damage_alpha_steel", s.Analysis.DamageAlphaSteel}, {"analysis.damage_beta_steel", s.Analysis.DamageBetaSteel},
+		{"analysis.damage_alpha_bolt", s.Analysis.DamageAlphaBolt}, {"analysis.damage_beta_bolt", s.Analysis.DamageBetaBolt}} {
+		c.positive(k.key, k.v)
+	}
 	if w := s.Analysis.NeckingWeight; w != nil {
 		c.number("analysis.necking_weight", *w, *w >= 0 && *w <= 1, "must lie in [0, 1]")
 	}
