@@ -96,3 +96,19 @@ func TestCompareBadInput(t *testing.T) {
 		t.Errorf("output directory created for bad input: %v", err)
 	}
 }
+
+// The demo's analysis to failure is the flat face with yielding and large
+// deformation, still a valid model.
+func TestToFailureVariant(t *testing.T) {
+	s, err := decodeSpec(demoModels()[0].Data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	toFailureVariant(s)
+	if s.Analysis.Materials != elastoplastic || !s.Analysis.LargeDeformation || !(s.Load.MaxDisplacement >= 20) {
+		t.Errorf("variant %+v, %+v", s.Analysis, s.Load)
+	}
+	if err := s.validate(); err != nil {
+		t.Error(err)
+	}
+}
