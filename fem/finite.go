@@ -117,8 +117,7 @@ func (FiniteStrain) Strain(c material.Condition, g *PointGeometry, u []float64) 
 	if !h.valid() {
 		return invalidStrain()
 	}
-	e, _, _ := henckyStrain(h.greenLagrange(), nil)
-	return e
+	return henckyValue(h.greenLagrange())
 }
 
 // Accumulate implements Kinematics. stress is the law's stress T and d its
@@ -341,6 +340,36 @@ func henckyStrain(gl [4]float64, t *material.Vec4) (e material.Vec4, jac, curv m
 	return e, jac, curv
 }
 
+// henckyValue is the E of henckyStrain without its derivatives: the
+// strain alone is asked for once per point and iteration, before the
+// stress is known.
+func henckyValue(gl [4]float64) material.Vec4 {
+	dm := gl[0] + gl[1]
+	m, a, b := 1+dm, gl[0]-gl[1], gl[3]
+	q := a*a + b*b
+	ell := math.Log1p(dm*(2+dm)-q) / 4
+	phi := psiValue(q/(m*m)) / (2 * m)
+	return material.Vec4{ell + phi*a, ell - phi*a, math.Log1p(2*gl[2]) / 2, 2 * phi * b}
+}
+
+// psiValue is ψ(s) of psi alone.
+func psiValue(s float64) float64 {
+	if s < psiSeries {
+		p, sk := 0.0, 1.0
+		for k := 0; k < 40; k++ {
+			t := sk / float64(2*k+1)
+			p += t
+			if t < 1e-17*p {
+				break
+			}
+			sk *= s
+		}
+		return p
+	}
+	x := math.Sqrt(s)
+	return math.Atanh(x) / x
+}
+
 // scalar is a function of (m, q) with its first and second derivatives.
 type scalar struct{ v, m, q, mm, mq, qq float64 }
 
@@ -387,9 +416,14 @@ func psi(s float64) (p, dp, ddp float64) {
 		sk := 1.0
 		for k := 0; k < 40; k++ {
 			fk := float64(k)
+			t := (fk + 2) * (fk + 1) * sk / (2*fk + 5)
 			p += sk / (2*fk + 1)
 			dp += (fk + 1) * sk / (2*fk + 3)
-			ddp += (fk + 2) * (fk + 1) * sk / (2*fk + 5)
+			ddp += t
+			// The terms fall as sᵏ; the second derivative's falls last.
+			if t < 1e-17*ddp {
+				break
+			}
 			sk *= s
 		}
 		return p, dp, ddp
