@@ -38,7 +38,7 @@ Flags:
 `, caution)
 		fs.PrintDefaults()
 	}
-	if err := fs.Parse(reorder(args)); err != nil {
+	if err := fs.Parse(reorderFlags(fs, args)); err != nil {
 		return parseExit(err)
 	}
 	if fs.NArg() < 2 {

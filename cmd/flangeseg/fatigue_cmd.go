@@ -167,36 +167,6 @@ Flags:
 	fs.PrintDefaults()
 }
 
-// reorderFlags puts flags before positional arguments, so that
-// `fatigue MODEL.toml --loads FILE` parses like `fatigue --loads FILE
-// MODEL.toml`; a flag of fs that is not boolean takes the next argument.
-func reorderFlags(fs *flag.FlagSet, args []string) []string {
-	var flags, pos []string
-	for i := 0; i < len(args); i++ {
-		a := args[i]
-		switch {
-		case a == "--":
-			pos = append(pos, args[i+1:]...)
-			i = len(args)
-		case strings.HasPrefix(a, "-") && a != "-":
-			flags = append(flags, a)
-			name := strings.TrimLeft(a, "-")
-			if strings.Contains(name, "=") || i+1 >= len(args) {
-				continue
-			}
-			if fl := fs.Lookup(name); fl != nil {
-				if b, ok := fl.Value.(interface{ IsBoolFlag() bool }); !ok || !b.IsBoolFlag() {
-					flags = append(flags, args[i+1])
-					i++
-				}
-			}
-		default:
-			pos = append(pos, a)
-		}
-	}
-	return append(flags, pos...)
-}
-
 // check reports every flag that breaks its rule, one per line.
 func (f fatigueFlags) check() error {
 	var errs []error

@@ -53,6 +53,12 @@ func TestHandCommand(t *testing.T) {
 		}
 	}
 	out.Reset()
+	// A flag with a value after the model file (the value must not be
+	// taken for a second file).
+	if code := run([]string{"hand", path, "--margin", "0.05"}, &out, &errOut); code != exitOK {
+		t.Fatalf("--margin after the file: exit %d: %s", code, errOut.String())
+	}
+	out.Reset()
 	if code := run([]string{"hand", path}, &out, &errOut); code != exitOK {
 		t.Fatalf("exit %d: %s", code, errOut.String())
 	}

@@ -39,7 +39,7 @@ Flags:
 `, caution)
 		fs.PrintDefaults()
 	}
-	if err := fs.Parse(reorder(args)); err != nil {
+	if err := fs.Parse(reorderFlags(fs, args)); err != nil {
 		return parseExit(err)
 	}
 	if fs.NArg() != 1 {
@@ -130,9 +130,10 @@ func progressBar(w io.Writer, n int, name string) *progressbar.ProgressBar {
 		progressbar.OptionClearOnFinish(), progressbar.OptionShowCount())
 }
 
-// reorder puts flags before positional arguments, so that
-// `run MODEL.toml -o DIR` parses like `run -o DIR MODEL.toml`.
-func reorder(args []string) []string {
+// reorderFlags puts flags before positional arguments, so that
+// `run MODEL.toml -o DIR` parses like `run -o DIR MODEL.toml`; a flag of
+// fs that is not boolean takes the next argument.
+func reorderFlags(fs *flag.FlagSet, args []string) []string {
 	var flags, pos []string
 	for i := 0; i < len(args); i++ {
 		a := args[i]
@@ -142,24 +143,21 @@ func reorder(args []string) []string {
 			i = len(args)
 		case strings.HasPrefix(a, "-") && a != "-":
 			flags = append(flags, a)
-			if !strings.Contains(a, "=") && valueFlag(a) && i+1 < len(args) {
-				flags = append(flags, args[i+1])
-				i++
+			name := strings.TrimLeft(a, "-")
+			if strings.Contains(name, "=") || i+1 >= len(args) {
+				continue
+			}
+			if fl := fs.Lookup(name); fl != nil {
+				if b, ok := fl.Value.(interface{ IsBoolFlag() bool }); !ok || !b.IsBoolFlag() {
+					flags = append(flags, args[i+1])
+					i++
+				}
 			}
 		default:
 			pos = append(pos, a)
 		}
 	}
 	return append(flags, pos...)
-}
-
-// valueFlag reports whether a run flag takes a value.
-func valueFlag(a string) bool {
-	switch strings.TrimLeft(a, "-") {
-	case "o", "dump-matrix":
-		return true
-	}
-	return false
 }
 
 func kNOr(p *float64) string {
