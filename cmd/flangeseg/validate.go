@@ -143,7 +143,12 @@ func (s *Spec) checkMaterialName(c *checker, key, name string, grades bool) {
 	if !c.usable(key) {
 		return
 	}
-	if _, ok := s.Materials[name]; ok {
+	if m, ok := s.Materials[name]; ok {
+		// The hand methods, which every run reports, need the shell's and
+		// the flange's yield strength: the first point of the curve.
+		if !grades && len(m.Curve) == 0 {
+			c.fail(key, "%s = %q: [%s] has no curve, so no yield strength for the hand methods; give it a curve, or use a built-in grade with analysis.materials = %q for a linear elastic analysis", key, name, joinKey("materials", name), elasticOnly)
+		}
 		return
 	}
 	_, gradeErr := handcalc.NominalGrade(name)

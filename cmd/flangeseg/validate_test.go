@@ -100,6 +100,9 @@ neck_radius`, "ring_springs = true", "ring_springs = true\n[materials.F]\nE = 21
 		{"falling true curve", []string{"ring_springs = true", "ring_springs = true\n[materials.S355]\nE = 210000\nnu = 0.3\ncurve_kind = \"true\"\ncurve = [[0.002, 355], [0.1, 350]]"}, "materials.S355.curve[1]: stress 350 falls below"},
 		{"curve point of three numbers", []string{"ring_springs = true", "ring_springs = true\n[materials.S355]\nE = 210000\nnu = 0.3\ncurve_kind = \"true\"\ncurve = [[0.002, 355, 1], [0.1, 450]]"}, "materials.S355.curve[0]: has 3 numbers"},
 		{"material key in wrong case", []string{"ring_springs = true", "ring_springs = true\n[materials.S355]\ne = 210000\nnu = 0.3"}, `unknown key "materials.S355.e" (did you mean "E"?)`},
+		{"flange material without a yield strength", []string{`material = "S355"
+neck_radius`, `material = "F"
+neck_radius`, "ring_springs = true", "ring_springs = true\n[materials.F]\nE = 210000\nnu = 0.3"}, `flange.material = "F": [materials.F] has no curve, so no yield strength for the hand methods`},
 		{"negative damage exponent", []string{"ring_springs = true", "ring_springs = true\ndamage_beta_bolt = -1"}, "analysis.damage_beta_bolt = -1: must be > 0"},
 		{"gamma_Mf below one", []string{"ring_springs = true", "ring_springs = true\n[fatigue]\ngamma_mf = 0.9"}, "fatigue.gamma_mf = 0.9: must be ≥ 1"},
 		{"unknown materials behaviour", []string{`materials = "elastic"`, `materials = "plastic"`}, `analysis.materials = "plastic": must be one of "elastoplastic", "elastic"`},
