@@ -85,7 +85,7 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := g.keepState(s, res, "preload", row); err != nil {
+	if err := g.observe(s, res, "preload", &row, true); err != nil {
 		return nil, err
 	}
 	res.rows = append(res.rows, row)
@@ -97,12 +97,11 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		if err != nil {
 			return true, err
 		}
-		res.rows = append(res.rows, row)
-		if opt.keep == nil || opt.keep(inc.Index) || inc.Fraction >= 1 {
-			if err := g.keepState(s, res, fmt.Sprintf("increment %d", inc.Index), row); err != nil {
-				return true, err
-			}
+		keep := opt.keep == nil || opt.keep(inc.Index) || inc.Fraction >= 1
+		if err := g.observe(s, res, fmt.Sprintf("increment %d", inc.Index), &row, keep); err != nil {
+			return true, err
 		}
+		res.rows = append(res.rows, row)
 		if opt.progress != nil {
 			opt.progress(int(math.Round(inc.Fraction*float64(ld.Increments))), ld.Increments)
 		}
@@ -241,29 +240,39 @@ func (g *segment) record(s *fem.Solver, inc int, stage string, v0 float64, its i
 	for _, p := range []*contact.Pair{g.faces, g.head, g.nut} {
 		row.penetration = math.Max(row.penetration, p.MaxPenetration(cur))
 	}
-	if g.model.HasHistory() {
-		pts, err := s.Points()
-		if err != nil {
-			return row, err
-		}
-		ps := g.readPlastic(pts)
-		row.maxPlastic, row.maxDamage, row.sitePlastic = ps.maxPlastic, ps.maxDmg, ps.site
-		row.boltDamage, row.boltDamageWhere = ps.boltDamage, ps.boltDamageWhere
-	}
 	return row, nil
 }
 
-func (g *segment) keepState(s *fem.Solver, res *analysis, label string, row historyRow) error {
+// observe evaluates the integration points once for what a recorded
+// increment needs of them: the yielding figures of its row (with a
+// path-dependent law) and, if keep, the state for field output.
+func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *historyRow, keep bool) error {
+	history := g.model.HasHistory()
+	if !keep && !history {
+		return nil
+	}
 	sol, err := s.Snapshot()
 	if err != nil {
 		return err
 	}
-	var scalars pointScalars
-	if g.model.HasHistory() {
+	var ps plasticState
+	if history {
 		// The points' history aliases the model's storage, which the next
-		// evaluation overwrites: keep the scalars the output needs.
-		scalars = g.readPlastic(sol.Points).points
+		// evaluation overwrites: read what the output needs now.
+		ps = g.readPlastic(sol.Points)
+		row.maxPlastic, row.maxDamage, row.sitePlastic = ps.maxPlastic, ps.maxDmg, ps.site
+		row.boltDamage, row.boltDamageWhere = ps.boltDamage, ps.boltDamageWhere
 	}
+	if keep {
+		return g.keepState(s, res, label, *row, sol, ps.points)
+	}
+	return nil
+}
+
+// keepState keeps a converged state for field output: its solution (with
+// Cauchy stress under large deformation), yielding scalars and contact.
+func (g *segment) keepState(s *fem.Solver, res *analysis, label string, row historyRow, sol *fem.Solution, scalars pointScalars) error {
+	var err error
 	if g.spec.Analysis.LargeDeformation {
 		if sol.Points, err = sol.CauchyPoints(); err != nil {
 			return err
