@@ -3,7 +3,6 @@ package fem
 import (
 	"errors"
 	"math"
-	"slices"
 )
 
 // gmres solves A·x = b by restarted GMRES with right preconditioning,
@@ -21,27 +20,59 @@ import (
 // unsymmetric, with M the factorized symmetric part, and when it keeps
 // the factorization of an earlier tangent.
 func gmres(mulA, precond func(dst, v []float64) error, b, x []float64, tol float64, restart, maxSteps int) (int, float64, error) {
+	var ws krylovSpace
+	return ws.gmres(mulA, precond, b, x, tol, restart, maxSteps)
+}
+
+// krylovSpace holds the vectors of gmres between calls, so that Newton
+// iterations, which call it every time, do not allocate restart + 1
+// vectors of the system's size each.
+type krylovSpace struct {
+	r, w         []float64
+	v, z, h      [][]float64
+	cs, sn, g, y []float64
+}
+
+// vectors returns count slices of length n from *set, growing it as needed.
+func vectors(set *[][]float64, count, n int) [][]float64 {
+	for len(*set) < count {
+		*set = append(*set, nil)
+	}
+	for i := 0; i < count; i++ {
+		if cap((*set)[i]) < n {
+			(*set)[i] = make([]float64, n)
+		}
+		(*set)[i] = (*set)[i][:n]
+	}
+	return (*set)[:count]
+}
+
+func grow(v []float64, n int) []float64 {
+	if cap(v) < n {
+		return make([]float64, n)
+	}
+	return v[:n]
+}
+
+// gmres is gmres with the workspace's vectors.
+func (ws *krylovSpace) gmres(mulA, precond func(dst, v []float64) error, b, x []float64, tol float64, restart, maxSteps int) (int, float64, error) {
 	n := len(b)
 	clear(x)
 	bnorm := norm(b)
 	if bnorm == 0 {
 		return 0, 0, nil
 	}
-	r := slices.Clone(b)
-	w := make([]float64, n)
-	v := make([][]float64, restart+1)
-	z := make([][]float64, restart)
-	for i := range v {
-		v[i] = make([]float64, n)
-	}
-	for i := range z {
-		z[i] = make([]float64, n)
-	}
-	h := make([][]float64, restart+1) // Hessenberg, h[i][j]
+	ws.r, ws.w = grow(ws.r, n), grow(ws.w, n)
+	r, w := ws.r, ws.w
+	copy(r, b)
+	v := vectors(&ws.v, restart+1, n)
+	z := vectors(&ws.z, restart, n)
+	h := vectors(&ws.h, restart+1, restart) // Hessenberg, h[i][j]
 	for i := range h {
-		h[i] = make([]float64, restart)
+		clear(h[i])
 	}
-	cs, sn, g, y := make([]float64, restart), make([]float64, restart), make([]float64, restart+1), make([]float64, restart)
+	ws.cs, ws.sn, ws.g, ws.y = grow(ws.cs, restart), grow(ws.sn, restart), grow(ws.g, restart+1), grow(ws.y, restart)
+	cs, sn, g, y := ws.cs, ws.sn, ws.g, ws.y
 	steps, rel := 0, 1.0
 	for {
 		beta := norm(r)

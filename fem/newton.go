@@ -114,6 +114,7 @@ type Solver struct {
 	factorOK, factorStale bool
 	// coupled: the Newton steps include the sliding couplings.
 	coupled bool
+	krylov  krylovSpace
 }
 
 // coupling is a dense unsymmetric block over equations (−1: none).
@@ -458,7 +459,7 @@ func (s *Solver) direction(du, r []float64) error {
 		return s.chol.SolveVecTo(du, r)
 	}
 	if s.factorOK {
-		steps, rel, err := gmres(s.mulTangent, s.chol.SolveVecTo, r, du, krylovTolerance, krylovSteps, krylovSteps)
+		steps, rel, err := s.krylov.gmres(s.mulTangent, s.chol.SolveVecTo, r, du, krylovTolerance, krylovSteps, krylovSteps)
 		s.Timing.KrylovSteps += steps
 		if err == nil && rel <= krylovTolerance {
 			if steps > krylovSteps/2 {
@@ -480,7 +481,7 @@ func (s *Solver) direction(du, r []float64) error {
 	if !couplings {
 		return s.chol.SolveVecTo(du, r)
 	}
-	steps, _, err := gmres(s.mulTangent, s.chol.SolveVecTo, r, du, krylovTolerance, 30, 4*krylovSteps)
+	steps, _, err := s.krylov.gmres(s.mulTangent, s.chol.SolveVecTo, r, du, krylovTolerance, 30, 4*krylovSteps)
 	s.Timing.KrylovSteps += steps
 	return err
 }
