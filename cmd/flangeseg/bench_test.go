@@ -61,14 +61,7 @@ func BenchmarkFailure(b *testing.B) {
 		}
 		spec.Analysis.Materials, spec.Analysis.LargeDeformation = elastoplastic, true
 		spec.Load.MaxDisplacement, spec.Load.Increments = 6, 48
-		g, err := buildSegment(spec, spec.derive())
-		if err != nil {
-			b.Fatal(err)
-		}
-		res, err := g.analyse(analyseOptions{})
-		if err != nil || res.failure != nil {
-			b.Fatal(err, res.failure)
-		}
+		g, res := analyseSpec(b, spec)
 		tm := res.timing
 		b.ReportMetric(float64(len(res.rows)-1), "increments")
 		b.ReportMetric(float64(tm.Iterations)/float64(len(res.rows)-1), "iterations/increment")

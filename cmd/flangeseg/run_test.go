@@ -31,16 +31,20 @@ func coarseModel(t *testing.T, i int, edit func(*Spec)) (*segment, *analysis) {
 	if err := spec.validate(); err != nil {
 		t.Fatal(err)
 	}
+	return analyseSpec(t, spec)
+}
+
+// analyseSpec builds a valid model and runs it through; a setup error or an
+// analysis that stops early fails the test.
+func analyseSpec(tb testing.TB, spec *Spec) (*segment, *analysis) {
+	tb.Helper()
 	g, err := buildSegment(spec, spec.derive())
 	if err != nil {
-		t.Fatal(err)
+		tb.Fatal(err)
 	}
 	res, err := g.analyse(analyseOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if res.failure != nil {
-		t.Fatal(res.failure)
+	if err != nil || res.failure != nil {
+		tb.Fatal(err, res.failure)
 	}
 	return g, res
 }
@@ -241,14 +245,7 @@ func TestMeshConvergence(t *testing.T) {
 		}
 		spec.Mesh.Size = size
 		spec.Load.Increments, spec.Load.MaxDisplacement = 8, 0.8
-		g, err := buildSegment(spec, spec.derive())
-		if err != nil {
-			t.Fatal(err)
-		}
-		res, err := g.analyse(analyseOptions{})
-		if err != nil || res.failure != nil {
-			t.Fatal(err, res.failure)
-		}
+		_, res := analyseSpec(t, spec)
 		fs, ok := at(res.rows, z, func(r historyRow) float64 { return r.fs })
 		if !ok {
 			t.Fatalf("mesh %g mm: Z = %.0f kN not reached", size, z/1e3)
@@ -326,14 +323,7 @@ func TestHingeLimitLoad(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	g, err := buildSegment(spec, spec.derive())
-	if err != nil {
-		t.Fatal(err)
-	}
-	res, err := g.analyse(analyseOptions{})
-	if err != nil || res.failure != nil {
-		t.Fatal(err, res.failure)
-	}
+	g, res := analyseSpec(t, spec)
 	u, ok := g.hand.UltimateOn(handcalc.BasisCharacteristicNoK2)
 	if !ok {
 		t.Fatal("no characteristic basis")
@@ -375,14 +365,7 @@ func TestThreadTrend(t *testing.T) {
 		if err := spec.validate(); err != nil {
 			t.Fatal(err)
 		}
-		g, err := buildSegment(spec, spec.derive())
-		if err != nil {
-			t.Fatal(err)
-		}
-		res, err := g.analyse(analyseOptions{})
-		if err != nil || res.failure != nil {
-			t.Fatal(err, res.failure)
-		}
+		g, res := analyseSpec(t, spec)
 		f := figures(g, res)
 		t.Logf("%s thread: peak %.1f kN at %.2f mm, end %.2f mm (%s); %s", thread, f.PeakLoadKN, f.DisplacementPeakMM, f.DisplacementEndMM, res.ending, f.FailureLocation)
 		return outcome{f.PeakLoadKN, f.DisplacementEndMM}
@@ -410,14 +393,7 @@ func TestModeA(t *testing.T) {
 		t.Fatal(err)
 	}
 	d := spec.derive()
-	g, err := buildSegment(spec, d)
-	if err != nil {
-		t.Fatal(err)
-	}
-	res, err := g.analyse(analyseOptions{})
-	if err != nil || res.failure != nil {
-		t.Fatal(err, res.failure)
-	}
+	g, res := analyseSpec(t, spec)
 	f := figures(g, res)
 	capacity := d.StressArea * d.Fub / 1e3
 	t.Logf("FE peak %.1f kN at %.2f mm, A_s·f_ub = %.1f kN (ratio %.3f); %s; %s", f.PeakLoadKN, f.DisplacementPeakMM, capacity, f.PeakLoadKN/capacity, res.ending, f.FailureLocation)
