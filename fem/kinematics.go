@@ -78,20 +78,44 @@ func (SmallStrain) Accumulate(c material.Condition, g *PointGeometry, u []float6
 }
 
 // addBtDB adds w·BᵀDB to k (nd×nd, row-major); scratch holds 4·nd values.
+// D is symmetric (the tangent of every law in package material is), so only
+// the upper triangle is computed and mirrored; the yy row of B, zero outside
+// axisymmetry, is skipped when it is. The product dominated the assembly of
+// yielding, large-deformation runs.
 func addBtDB(b [][]float64, d *material.Mat4, w float64, k, scratch []float64) {
 	nd := len(b[0])
+	hoop := false
+	for _, v := range b[2] {
+		hoop = hoop || v != 0
+	}
 	db := scratch[:4*nd]
-	for i := 0; i < 4; i++ {
-		row := db[i*nd : (i+1)*nd]
-		for j := 0; j < nd; j++ {
-			row[j] = w * (d[i][0]*b[0][j] + d[i][1]*b[1][j] + d[i][2]*b[2][j] + d[i][3]*b[3][j])
+	d0, d1, d2, d3 := db[:nd], db[nd:2*nd], db[2*nd:3*nd], db[3*nd:4*nd]
+	b0, b1, b2, b3 := b[0], b[1], b[2], b[3]
+	for j := 0; j < nd; j++ {
+		x0, x1, x3 := b0[j], b1[j], b3[j]
+		d0[j] = w * (d[0][0]*x0 + d[0][1]*x1 + d[0][3]*x3)
+		d1[j] = w * (d[1][0]*x0 + d[1][1]*x1 + d[1][3]*x3)
+		d3[j] = w * (d[3][0]*x0 + d[3][1]*x1 + d[3][3]*x3)
+		if hoop {
+			x2 := b2[j]
+			d0[j] += w * d[0][2] * x2
+			d1[j] += w * d[1][2] * x2
+			d3[j] += w * d[3][2] * x2
+			d2[j] = w * (d[2][0]*x0 + d[2][1]*x1 + d[2][2]*x2 + d[2][3]*x3)
 		}
 	}
 	for r := 0; r < nd; r++ {
-		b0, b1, b2, b3 := b[0][r], b[1][r], b[2][r], b[3][r]
+		y0, y1, y2, y3 := b0[r], b1[r], b2[r], b3[r]
 		kr := k[r*nd : (r+1)*nd]
-		for j := 0; j < nd; j++ {
-			kr[j] += b0*db[j] + b1*db[nd+j] + b2*db[2*nd+j] + b3*db[3*nd+j]
+		for j := r; j < nd; j++ {
+			v := y0*d0[j] + y1*d1[j] + y3*d3[j]
+			if hoop {
+				v += y2 * d2[j]
+			}
+			kr[j] += v
+			if j != r {
+				k[j*nd+r] += v
+			}
 		}
 	}
 }
