@@ -110,6 +110,10 @@ type assembler struct {
 	work    []int
 	fe, ke  []float64
 	scratch []*scratch
+	// dup, if set, is a change of the dof values (all dofs, tied ones
+	// expanded); a tangent assembly then also adds K·dup, the linear
+	// change of the internal forces, into kdup (all dofs, node level).
+	dup, kdup []float64
 }
 
 func newAssembler(m *Model) *assembler {
@@ -181,6 +185,9 @@ func (a *assembler) assemble(u, fint []float64, k *sparse.Matrix, pts [][]PointR
 		}
 		if k == nil {
 			continue
+		}
+		if a.dup != nil {
+			addProduct(a.kdup, a.dup, em.dofs, ke)
 		}
 		if em.t != nil {
 			ke = a.transform(em, ke)
@@ -328,6 +335,21 @@ func (a *assembler) cached(e, nd int) []float64 {
 	}
 	a.linear[e] = ke
 	return ke
+}
+
+// addProduct adds k·x over dofs to y: k is a square row-major block over
+// the dofs, x and y are indexed by dof.
+func addProduct(y, x []float64, dofs []Dof, k []float64) {
+	n := len(dofs)
+	for c, dc := range dofs {
+		xc := x[dc]
+		if xc == 0 {
+			continue
+		}
+		for r, dr := range dofs {
+			y[dr] += k[r*n+c] * xc
+		}
+	}
 }
 
 // mulVec sets dst = k·x for a square row-major k.

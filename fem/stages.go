@@ -43,9 +43,13 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 		if err := s.m.SetValue(d, start+next*span); err != nil {
 			return err
 		}
-		s.predict(next - at)
+		if err := s.predict(next - at); err != nil {
+			return err
+		}
+		s.log(fmt.Sprintf("increment %d: %.6g → %.6g", count+1, start+at*span, start+next*span))
 		its, err := s.Equilibrium()
 		if err != nil {
+			s.log(fmt.Sprintf("  not converged (%v); step halved", err))
 			s.Revert()
 			if err := s.m.SetValue(d, start+at*span); err != nil {
 				return err
@@ -99,6 +103,7 @@ func (s *Solver) Preload(region string, target, rel float64, force func() (float
 			return 0, err
 		}
 		res.Iterations++
+		s.log(fmt.Sprintf("preload: slice strain %.6g", e))
 		if _, err := s.Equilibrium(); err != nil {
 			s.Revert()
 			if err := s.m.SetEigenstrain(region, eigenZZ(res.Eigenstrain)); err != nil {
@@ -147,7 +152,10 @@ func (s *Solver) Preload(region string, target, rel float64, force func() (float
 		e1 := res.Eigenstrain
 		next := e1 + (target-f1)*(e1-e0)/(f1-f0)
 		e0, f0 = e1, f1
-		if err := rampTo(next, math.Abs(next-e1)/5); err != nil {
+		// Ramp in fifths of the way, or of the shortening reached when the
+		// correction is smaller: a secant correction of a few per cent is
+		// one step, as an increment of the ramp would be.
+		if err := rampTo(next, math.Max(math.Abs(next-e1), math.Abs(e1))/5); err != nil {
 			return res, err
 		}
 		f1 = res.Force
@@ -174,3 +182,10 @@ func (s *Solver) Shorten(region string, shortening, sliceLength float64) error {
 }
 
 func eigenZZ(e float64) [4]float64 { return [4]float64{0, e, 0, 0} }
+
+// log hands a line to the --verbose log, if any.
+func (s *Solver) log(line string) {
+	if s.opt.Log != nil {
+		s.opt.Log(line)
+	}
+}
