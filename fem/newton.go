@@ -115,6 +115,9 @@ type Solver struct {
 	// coupled: the Newton steps include the sliding couplings.
 	coupled bool
 	krylov  krylovSpace
+	// oldFactorFailed: GMRES with an older factor did not converge in
+	// this equilibrium solve, so its steps factorize without trying it.
+	oldFactorFailed bool
 }
 
 // coupling is a dense unsymmetric block over equations (−1: none).
@@ -385,7 +388,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 	// halving it would only slow the search.
 	prev, step := math.Inf(1), 1.0
 	last := make([]float64, len(s.u))
-	s.coupled = true
+	s.coupled, s.oldFactorFailed = true, false
 	for it := 1; ; it++ {
 		if err := s.ensurePattern(); err != nil {
 			return it, err
@@ -465,7 +468,7 @@ func (s *Solver) direction(du, r []float64) error {
 	if s.factorOK && !s.factorStale && !couplings {
 		return s.chol.SolveVecTo(du, r)
 	}
-	if s.factorOK {
+	if s.factorOK && !s.oldFactorFailed {
 		steps, rel, err := s.krylov.gmres(s.mulTangent, s.chol.SolveVecTo, r, du, krylovTolerance, krylovSteps, krylovSteps)
 		s.Timing.KrylovSteps += steps
 		if err == nil && rel <= krylovTolerance {
@@ -474,6 +477,10 @@ func (s *Solver) direction(du, r []float64) error {
 			}
 			return nil
 		}
+		// While contact statuses keep changing from one iteration to the
+		// next, an older factor fails again: for the rest of this solve,
+		// factorize directly.
+		s.oldFactorFailed = true
 	}
 	start := time.Now()
 	err := s.chol.Factorize(s.sym, s.k)
@@ -615,7 +622,7 @@ func (s *Solver) tangentResponse(dup []float64) ([]float64, error) {
 		r[i] += change[i]
 	}
 	du := make([]float64, s.m.nEq)
-	s.coupled = true
+	s.coupled, s.oldFactorFailed = true, false
 	start := time.Now()
 	err = s.direction(du, r)
 	s.Timing.Solve += time.Since(start)
