@@ -149,3 +149,23 @@ func TestRampMatchesLinear(t *testing.T) {
 		t.Errorf("pull %g N, E·A·u/L = %g N", want, exact)
 	}
 }
+
+// The first increment of a ramp starts from the tangent's response to the
+// prescribed change: on a linear model, through the rigid edge's ties,
+// that is the solution, so no Newton step is left to take.
+func TestRampFirstIncrementPredicted(t *testing.T) {
+	m, edge := barModel(t, stackedBar(t))
+	s, err := NewSolver(m, nil, NewtonOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	err = s.Ramp(edge.Axial, 0.1, RampOptions{Increments: 1}, func(inc Increment) (bool, error) {
+		if inc.Iterations != 0 {
+			t.Errorf("first increment: %d Newton steps after the prediction, want 0", inc.Iterations)
+		}
+		return false, nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+}
