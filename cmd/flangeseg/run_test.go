@@ -304,17 +304,37 @@ func TestDefinedContactBands(t *testing.T) {
 	})
 }
 
-// Plastic-hinge limit load (Petersen, Stahlbau; CHECKS.md): with shell and
-// flange elastic–perfectly plastic and a bolt that cannot fail, the FE
-// peak segment force should come within 15 % of the mechanism load of
-// mode C, Z_C = (M_pl,flange,net + M_pl,shell)/b. The model of
-// testdata/hinge_mode_c.toml gives an FE plateau well above it: the
-// washer clamps the flange at the bolt line, so the flange hinge forms
-// near the hole edge, over the gross width and a shorter lever, which the
-// net-width hinge at the bolt axis of mode C (as recalled, from memory)
-// does not see. The test reports the figures and is skipped until the
-// mechanism is settled; the closing note of the analysis-to-failure issue
-// says so.
+// Plastic-hinge limit load (Petersen, Stahlbau — from memory, CHECKS.md):
+// with shell and flange elastic–perfectly plastic and a bolt that cannot
+// fail, the FE peak segment force comes within 15 % of the load of mode C,
+// a hinge in the shell at the flange plus one in the flange across the
+// hole at the bolt line:
+//
+//	Z_C = (M_pl,shell + M_pl,flange,net)/b,
+//	M_pl,shell = f_y·c·t²/4,  M_pl,flange,net = f_y·(c − d_h)·t_f²/4,
+//
+// with c the segment width on the bolt circle, π(D − 2b)/n. The mechanism
+// puts the bolt's reaction on its axis and its hinges in slender parts, so
+// the model of testdata/hinge_mode_c.toml has a long, thin flange and a
+// small bolt (b = 150 mm, t_f = 25 mm, d_w/2 = 15 mm): Z_C = (1.336 +
+// 4.814) kN·m / 0.150 m = 41.0 kN. The FE curve bends over near Z_C at
+// u ≈ 0.05·b and rises slowly after it, as the elastic bolt bends with the
+// flange; the run goes to u = 0.1·b. The flange hinge forms across the
+// hole at the bolt line, as mode C has it (checked below). Without ring
+// springs, as in the hand method's segment model, the shell stub stays
+// elastic at the junction within that displacement: it carries less than
+// the M_pl,shell that mode C counts (a fifth of Z_C), and the bolt's
+// reaction off its axis and its elastic bending make up for it (inferred
+// from the fields, not separated). With
+// ring springs the shell yields there and the FE reaches 1.26·Z_C; the
+// closing note of the analysis-to-failure issue reports both.
+//
+// On a compact flange the same model carries far more than Z_C: with b =
+// 70 mm, t_f = 40 mm and an M36 washer (d_w/2 = 33 mm) the FE reached
+// 1.75·Z_C. There the bolt's reaction sits near the washer's rim, not on
+// its axis, which shortens the lever b and lengthens the free-edge side's,
+// and the spans are shorter than the flange is thick; mode C is then a
+// conservative estimate, which README's limits say.
 func TestHingeLimitLoad(t *testing.T) {
 	if testing.Short() {
 		t.Skip("an elastoplastic analysis")
@@ -323,6 +343,10 @@ func TestHingeLimitLoad(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	const fy = 350.0 // MPa, the curve of [materials.epp]
+	b, tf, ts := spec.Flange.B, spec.Flange.Thickness, spec.Shell.Thickness
+	c := math.Pi * (spec.Tower.Diameter - 2*b) / float64(spec.Tower.Bolts)
+	zc := (fy*c*ts*ts/4 + fy*(c-spec.Bolt.Hole)*tf*tf/4) / b / 1e3 // kN
 	g, res := analyseSpec(t, spec)
 	u, ok := g.hand.UltimateOn(handcalc.BasisCharacteristicNoK2)
 	if !ok {
@@ -331,11 +355,19 @@ func TestHingeLimitLoad(t *testing.T) {
 	if u.Petersen.Governing != handcalc.ModeC {
 		t.Fatalf("hand governing mode %s, the check needs mode C", u.Petersen.Governing)
 	}
-	peak := figures(g, res).PeakLoadKN
-	zc := u.Petersen.C / 1e3
-	t.Logf("FE peak %.1f kN, Petersen mode C %.1f kN (ratio %.3f); mechanism: %s", peak, zc, peak/zc, figures(g, res).FailureLocation)
-	if e := math.Abs(peak-zc) / zc; e > 0.15 {
-		t.Skipf("known discrepancy: FE peak %.1f kN is %.0f %% off Petersen's mode C %.1f kN (limit 15 %%)", peak, 100*e, zc)
+	if e := math.Abs(u.Petersen.C/1e3-zc) / zc; e > 1e-9 {
+		t.Fatalf("handcalc mode C %.3f kN, the arithmetic here %.3f kN", u.Petersen.C/1e3, zc)
+	}
+	f := figures(g, res)
+	if res.failure != nil {
+		t.Fatalf("analysis stopped at u = %.2f mm: %v", f.DisplacementEndMM, res.failure)
+	}
+	t.Logf("FE peak %.1f kN at u = %.1f mm, Petersen mode C %.1f kN (ratio %.3f); mechanism: %s", f.PeakLoadKN, f.DisplacementPeakMM, zc, f.PeakLoadKN/zc, f.FailureLocation)
+	if e := math.Abs(f.PeakLoadKN-zc) / zc; e > 0.15 {
+		t.Errorf("FE peak %.1f kN is %.1f %% off Petersen's mode C %.1f kN (limit 15 %%)", f.PeakLoadKN, 100*e, zc)
+	}
+	if !strings.HasPrefix(f.FailureLocation, "plastic hinge in the flange") {
+		t.Errorf("mechanism %q: want the flange hinge of mode C to lead", f.FailureLocation)
 	}
 }
 
