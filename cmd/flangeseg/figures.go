@@ -41,8 +41,16 @@ type jointFigures struct {
 	// FEVersusHand states how the FE ultimate load compares with the hand
 	// methods' best estimate, in words and as the ratio of the FE peak to
 	// it (0 when the FE side is not assessed).
-	FEVersusHand        string  `json:"fe_versus_hand"`
-	FEToHandUltimate    float64 `json:"fe_peak_over_hand_ultimate"`
+	FEVersusHand     string  `json:"fe_versus_hand"`
+	FEToHandUltimate float64 `json:"fe_peak_over_hand_ultimate"`
+	// MechanismMode is the Petersen mode the FE mechanism matches (empty
+	// if none), ModeHandKN that mode's hand value on the same basis as
+	// HandUltimateKN, and FEToMode the FE peak over it: where the FE does
+	// not form the mechanism that governs by hand, this is the like-for-
+	// like comparison.
+	MechanismMode       string  `json:"fe_mechanism_mode,omitempty"`
+	ModeHandKN          float64 `json:"fe_mechanism_mode_hand_kN,omitempty"`
+	FEToMode            float64 `json:"fe_peak_over_fe_mechanism_mode,omitempty"`
 	StubElongationPerKN float64 `json:"stub_elongation_per_kN_mm"`
 }
 
@@ -97,25 +105,49 @@ func figures(g *segment, res *analysis) jointFigures {
 		}
 	}
 	f.FEVersusHand = "not assessed: linear elastic materials (no FE ultimate load)"
-	if g.model.HasHistory() && len(rows) > 0 && f.HandUltimateKN > 0 {
+	if !g.model.HasHistory() || len(rows) == 0 {
+		return jointCurveFigures(g, res, f, stub)
+	}
+	last := rows[len(rows)-1]
+	prying := 0.0
+	if last.z > 0 {
+		prying = last.fs / last.z
+	}
+	var mode handcalc.Mode
+	f.FailureLocation, mode = mechanism(last.sitePlastic, prying)
+	f.MaxPlasticStrain, f.MaxDamage = last.maxPlastic, last.maxDamage
+	if f.HandUltimateKN > 0 {
 		f.FEToHandUltimate = f.PeakLoadKN / f.HandUltimateKN
-		rising := len(rows) > 1 && rows[len(rows)-1].z >= rows[len(rows)-2].z
-		switch {
-		case rising:
+		rising := len(rows) > 1 && last.z >= rows[len(rows)-2].z
+		if rising {
 			f.FEVersusHand = fmt.Sprintf("FE largest Z %.1f kN is %.2f × the hand ultimate load %.1f kN, and still rising at the end: a lower bound of the FE ultimate load", f.PeakLoadKN, f.FEToHandUltimate, f.HandUltimateKN)
-		default:
+		} else {
 			f.FEVersusHand = fmt.Sprintf("FE peak %.1f kN is %.2f × the hand ultimate load %.1f kN", f.PeakLoadKN, f.FEToHandUltimate, f.HandUltimateKN)
 		}
-	}
-	if g.model.HasHistory() && len(rows) > 0 {
-		last := rows[len(rows)-1]
-		prying := 0.0
-		if last.z > 0 {
-			prying = last.fs / last.z
+		if u, ok := g.hand.UltimateOn(handcalc.BasisCharacteristicNoK2); ok && mode != "" {
+			f.MechanismMode, f.ModeHandKN = string(mode), modeValue(u.Seidel, mode)/1e3
+			f.FEToMode = f.PeakLoadKN / f.ModeHandKN
+			f.FEVersusHand += fmt.Sprintf("; the FE mechanism is Petersen's mode %s, whose hand value is %.1f kN (FE/hand %.2f)", mode, f.ModeHandKN, f.FEToMode)
 		}
-		f.FailureLocation = mechanism(last.sitePlastic, prying)
-		f.MaxPlasticStrain, f.MaxDamage = last.maxPlastic, last.maxDamage
 	}
+	return jointCurveFigures(g, res, f, stub)
+}
+
+// modeValue is a mode's ultimate segment force, N.
+func modeValue(m handcalc.Mechanisms, mode handcalc.Mode) float64 {
+	switch mode {
+	case handcalc.ModeA:
+		return m.A
+	case handcalc.ModeB:
+		return m.B
+	}
+	return m.C
+}
+
+// jointCurveFigures reads the service-range figures off the curves:
+// stiffness, load factor, opening and decompression load.
+func jointCurveFigures(g *segment, res *analysis, f jointFigures, stub float64) jointFigures {
+	rows := res.rows
 	if len(rows) < 2 {
 		return f
 	}

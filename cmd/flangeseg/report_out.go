@@ -606,6 +606,11 @@ func (n *runNote) handVersusFE() report.Table {
 		}
 		return report.Num(j.PeakLoadKN*1e3/z, "")
 	}
+	if assessed && j.MechanismMode != "" {
+		t.Rows = append(t.Rows, []report.Cell{report.Text("the FE mechanism's own mode, by hand"), report.Text(basisText(handcalc.BasisCharacteristicNoK2)),
+			report.Text(j.MechanismMode), report.Num(j.ModeHandKN, ""), ratio(j.ModeHandKN * 1e3),
+			report.Text("Seidel (2001), the mode the FE mechanism matches, " + srcHand)})
+	}
 	for _, u := range h.Ultimate {
 		for _, m := range []struct {
 			name, source string
