@@ -434,7 +434,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			}
 		}
 		start := time.Now()
-		err := s.direction(du, r)
+		err := s.direction(du, r, forcing(rel))
 		s.Timing.Solve += time.Since(start)
 		if err != nil {
 			return it, err
@@ -462,16 +462,17 @@ func (s *Solver) retreat(before, du []float64, step float64) {
 // tangent has changed little (an elastic increment, a few contact points
 // changing status), and a factorization costs tens of such products.
 // Sliding friction adds couplings that no symmetric factorization holds,
-// so while points slide the solve is always GMRES.
-func (s *Solver) direction(du, r []float64) error {
+// so while points slide the solve is always GMRES, to the relative
+// tolerance tol.
+func (s *Solver) direction(du, r []float64, tol float64) error {
 	couplings := len(s.couplings) > 0 && s.coupled
 	if s.factorOK && !s.factorStale && !couplings {
 		return s.chol.SolveVecTo(du, r)
 	}
 	if s.factorOK && !s.oldFactorFailed {
-		steps, rel, err := s.krylov.gmres(s.mulTangent, s.chol.SolveVecTo, r, du, krylovTolerance, krylovSteps, krylovSteps)
+		steps, rel, err := s.krylov.gmres(s.mulTangent, s.chol.SolveVecTo, r, du, tol, krylovSteps, krylovSteps)
 		s.Timing.KrylovSteps += steps
-		if err == nil && rel <= krylovTolerance {
+		if err == nil && rel <= tol {
 			if steps > krylovSteps/2 {
 				s.factorOK = false // cheaper to factorize next time
 			}
@@ -495,17 +496,27 @@ func (s *Solver) direction(du, r []float64) error {
 	if !couplings {
 		return s.chol.SolveVecTo(du, r)
 	}
-	steps, _, err := s.krylov.gmres(s.mulTangent, s.chol.SolveVecTo, r, du, krylovTolerance, 30, 4*krylovSteps)
+	steps, _, err := s.krylov.gmres(s.mulTangent, s.chol.SolveVecTo, r, du, tol, 30, 4*krylovSteps)
 	s.Timing.KrylovSteps += steps
 	return err
 }
 
-// The inner solve's relative residual: far below the nonlinear residual's
-// tolerance relative to the first residual, so the inexact Newton steps
-// converge as exact ones would; and the GMRES steps allowed with an old
-// factorization before a new one is made.
+// forcing is the inner solve's relative tolerance at the nonlinear
+// relative residual rel: proportional to it between krylovTolerance and
+// krylovLoose, so a far-off iterate is not solved for more exactly than it
+// deserves and the steps still converge quadratically near the solution
+// (an inexact Newton method with η = O(‖r‖): Dembo, Eisenstat & Steihaug
+// 1982; Eisenstat & Walker 1996).
+func forcing(rel float64) float64 { return min(krylovLoose, max(krylovTolerance, rel)) }
+
+// The inner solve's relative residual: at the least krylovTolerance, far
+// below the nonlinear residual's tolerance relative to the first residual,
+// so the inexact Newton steps converge as exact ones would, and at the
+// most krylovLoose; and the GMRES steps allowed with an old factorization
+// before a new one is made.
 const (
 	krylovTolerance = 1e-6
+	krylovLoose     = 1e-3
 	krylovSteps     = 12
 	// coupledIterations: Newton iterations of one solve with the full
 	// tangent before the sliding couplings are dropped.
@@ -624,7 +635,7 @@ func (s *Solver) tangentResponse(dup []float64) ([]float64, error) {
 	du := make([]float64, s.m.nEq)
 	s.coupled, s.oldFactorFailed = true, false
 	start := time.Now()
-	err = s.direction(du, r)
+	err = s.direction(du, r, krylovTolerance)
 	s.Timing.Solve += time.Since(start)
 	return du, err
 }
