@@ -209,17 +209,22 @@ func fillNonlinearB(c material.Condition, g *PointGeometry, h deformation, b [][
 // term in the x block alone.
 func addInitialStress(c material.Condition, g *PointGeometry, s material.Vec4, w float64, ke []float64) {
 	nd := 2 * len(g.N)
+	axi := c == material.Axisymmetric
 	for a := range g.N {
 		dxa, dza := g.DNdx[a], g.DNdz[a]
-		for b := range g.N {
-			dxb, dzb := g.DNdx[b], g.DNdz[b]
-			v := w * (s[0]*dxa*dxb + s[1]*dza*dzb + s[3]*(dxa*dzb+dza*dxb))
+		sx, sz := w*(s[0]*dxa+s[3]*dza), w*(s[1]*dza+s[3]*dxa)
+		for b := a; b < len(g.N); b++ {
+			v := sx*g.DNdx[b] + sz*g.DNdz[b]
 			hoop := 0.0
-			if c == material.Axisymmetric {
+			if axi {
 				hoop = w * s[2] * g.N[a] * g.N[b] / (g.X * g.X)
 			}
 			ke[(2*a)*nd+2*b] += v + hoop
 			ke[(2*a+1)*nd+2*b+1] += v
+			if b != a {
+				ke[(2*b)*nd+2*a] += v + hoop
+				ke[(2*b+1)*nd+2*a+1] += v
+			}
 		}
 	}
 }
