@@ -121,6 +121,7 @@ func newAssembler(m *Model) *assembler {
 		m.Number()
 	}
 	maps := m.elementMaps()
+	m.cacheGeometry()
 	return &assembler{m: m, maps: maps, eqIdx: m.equationGroups(maps), s: newScratch()}
 }
 

@@ -56,6 +56,54 @@ func (m *Model) pointGeometry(e int, p naturalPoint, s *scratch) (*PointGeometry
 	return g, nil
 }
 
+// geometryLimit bounds the values the geometry cache may hold.
+const geometryLimit = 1 << 24
+
+// cacheGeometry keeps every integration point's geometry, which depends
+// only on the reference mesh: a Newton run evaluates the same points
+// hundreds of times. Nothing is kept if the cache would be too large or an
+// element is degenerate (its error then comes from pointGeometry).
+func (m *Model) cacheGeometry() {
+	if m.geo != nil {
+		return
+	}
+	nen := 0
+	for _, el := range m.mesh.Elements {
+		nen = max(nen, len(el.Nodes))
+	}
+	if len(m.mesh.Elements)*len(m.rule)*(3*nen+3) > geometryLimit {
+		return
+	}
+	geo := make([][]PointGeometry, len(m.mesh.Elements))
+	s := newScratch()
+	for e, el := range m.mesh.Elements {
+		n := len(el.Nodes)
+		geo[e] = make([]PointGeometry, len(m.rule))
+		values := make([]float64, 3*n*len(m.rule))
+		for ip, p := range m.rule {
+			g, err := m.pointGeometry(e, p, s)
+			if err != nil {
+				return
+			}
+			v := values[3*n*ip : 3*n*(ip+1)]
+			copy(v, g.N)
+			copy(v[n:], g.DNdx)
+			copy(v[2*n:], g.DNdz)
+			geo[e][ip] = PointGeometry{N: v[:n:n], DNdx: v[n : 2*n : 2*n], DNdz: v[2*n:], X: g.X, Z: g.Z, Weight: g.Weight}
+		}
+	}
+	m.geo = geo
+}
+
+// geometryAt is the geometry of integration point ip (natural point p) of
+// element e: cached, or evaluated into s. Callers only read it.
+func (m *Model) geometryAt(e, ip int, p naturalPoint, s *scratch) (*PointGeometry, error) {
+	if m.geo != nil {
+		return &m.geo[e][ip], nil
+	}
+	return m.pointGeometry(e, p, s)
+}
+
 // PointResult is the state of one integration point after a solve.
 type PointResult struct {
 	X, Z   float64
@@ -100,7 +148,7 @@ func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, 
 	eigen := m.eigen[region]
 	spring := m.foundation[region]
 	for ip, p := range m.rule {
-		g, err := m.pointGeometry(e, p, s)
+		g, err := m.geometryAt(e, ip, p, s)
 		if err != nil {
 			return err
 		}

@@ -65,7 +65,8 @@ type Model struct {
 	// foundation per region: elastic support in x per unit volume (ring springs)
 	foundation [][2]float64
 	rule       []naturalPoint
-	nDof       int // node dofs plus master dofs
+	geo        [][]PointGeometry // per element and rule point; nil until cacheGeometry
+	nDof       int               // node dofs plus master dofs
 	fixed      []bool
 	value      []float64 // prescribed value of fixed dofs
 	depends    [][]term  // non-nil for a node dof tied to rigid-edge masters
