@@ -16,7 +16,7 @@ func runDemo(args []string, stdout, stderr io.Writer) int {
 	outDir := fs.String("o", "demo_results", "write each demo model's results into `DIR`/flat and DIR/bands")
 	printModel := fs.Bool("print-model", false, "print the demo model files (TOML) and exit")
 	verbose := fs.Bool("verbose", false, "log every Newton iteration on stderr")
-	toFailure := fs.Bool("to-failure", false, "instead, load the flat-face joint to failure (elastoplastic, large deformation; about a minute) into DIR/flat_to_failure")
+	toFailure := fs.Bool("to-failure", false, "instead, load the flat-face joint to failure (elastoplastic, large deformation; about half a minute) into DIR/flat_to_failure")
 	fs.Usage = func() {
 		fmt.Fprintf(stderr, `Usage: flangeseg demo [-o DIR] [--print-model] [--verbose] [--to-failure]
 
