@@ -340,7 +340,7 @@ func (a *assembler) cached(e, nd int) []float64 {
 
 // addProduct adds k·x over dofs to y: k is a square row-major block over
 // the dofs, x and y are indexed by dof.
-func addProduct(y, x []float64, dofs []Dof, k []float64) {
+func addProduct[D ~int](y, x []float64, dofs []D, k []float64) {
 	n := len(dofs)
 	for c, dc := range dofs {
 		xc := x[dc]

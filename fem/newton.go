@@ -304,11 +304,7 @@ func (s *Solver) addContact(dofs []int, f, kc []float64, k *sparse.Matrix) error
 		return nil
 	}
 	if s.a.dup != nil {
-		ds := make([]Dof, len(dofs))
-		for i, d := range dofs {
-			ds[i] = Dof(d)
-		}
-		addProduct(s.a.kdup, s.a.dup, ds, kc)
+		addProduct(s.a.kdup, s.a.dup, dofs, kc)
 	}
 	return k.AddDense(s.toEquations(dofs, kc))
 }
