@@ -56,6 +56,9 @@ func (p *Pair) Evaluate(cur []Point, tangent bool, add func(dofs []int, f, k []f
 		}
 		st := &p.working[i]
 		e := p.evalPoint(i, cur, st)
+		p.before[i] = p.trial[i].status
+		p.changed[i] = p.hasEvaluated && e.status != p.trial[i].status
+		p.lastPressure[i] = e.pN
 		p.trial[i] = trialState{status: e.status, proj: location{seg: e.seg, r: e.m.r}, anchor: e.keep}
 		if e.status == unpaired || e.status == open {
 			continue
@@ -69,7 +72,7 @@ func (p *Pair) Evaluate(cur []Point, tangent bool, add func(dofs []int, f, k []f
 		}
 		p.accumulate(&acc, i, &e)
 	}
-	p.hasTrial = true
+	p.hasTrial, p.hasEvaluated = true, true
 	return flush()
 }
 

@@ -106,6 +106,13 @@ type Pair struct {
 	trial              []trialState
 	hasTrial           bool
 	couplings          []Block // SlidingCouplings of the last tangent evaluation
+	// before holds each point's status at the Evaluate before the last,
+	// changed whether the last one changed it, lastPressure its pressure
+	// there (for Changes).
+	before       []status
+	changed      []bool
+	lastPressure []float64
+	hasEvaluated bool
 }
 
 // gaussPoint is an integration point of the slave surface.
@@ -464,6 +471,9 @@ func (p *Pair) initialState(ref []Point) error {
 	p.committed = make([]pointState, len(p.points))
 	p.working = make([]pointState, len(p.points))
 	p.trial = make([]trialState, len(p.points))
+	p.before = make([]status, len(p.points))
+	p.changed = make([]bool, len(p.points))
+	p.lastPressure = make([]float64, len(p.points))
 	facing, same := 0, 0
 	for i := range p.points {
 		st := pointState{anchor: nowhere, hint: -1}

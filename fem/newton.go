@@ -25,6 +25,8 @@ type ContactPair interface {
 	// SlidingCouplings is the part of the tangent left out of Evaluate's
 	// (see contact.Settings.NoSlidingStiffness), nil when none.
 	SlidingCouplings() []contact.Block
+	// Changes lists the points whose status changed in the last Evaluate.
+	Changes() []contact.Change
 }
 
 // NewtonOptions tune the equilibrium iterations.
@@ -405,7 +407,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		s.lastRes = rel
 		s.Timing.Iterations++
 		if s.opt.Log != nil {
-			s.opt.Log(fmt.Sprintf("  iteration %2d  relative residual %.3e", it, rel))
+			s.opt.Log(fmt.Sprintf("  iteration %2d  relative residual %.3e%s", it, rel, s.iterationNote(r)))
 		}
 		if rel <= s.opt.Tolerance {
 			return it - 1, nil
@@ -773,4 +775,34 @@ func (s *Solver) unstable(err error) error {
 func IsNotConverged(err error) bool {
 	var nc *NotConvergedError
 	return errors.As(err, &nc)
+}
+
+// iterationNote describes where the residual r is largest and which
+// contact points changed status, for the --verbose log.
+func (s *Solver) iterationNote(r []float64) string {
+	worst, at := 0.0, -1
+	for d, q := range s.m.eq {
+		if q >= 0 && math.Abs(r[q]) > worst {
+			worst, at = math.Abs(r[q]), d
+		}
+	}
+	var b strings.Builder
+	if at >= 0 {
+		fmt.Fprintf(&b, "  largest %.3g N at %s", worst, s.m.DescribeDof(Dof(at)))
+	}
+	for _, p := range s.pairs {
+		ch := p.Changes()
+		if len(ch) == 0 {
+			continue
+		}
+		fmt.Fprintf(&b, "; %s: %d changed", p.Name(), len(ch))
+		for i, c := range ch {
+			if i == 3 {
+				b.WriteString(" …")
+				break
+			}
+			fmt.Fprintf(&b, " [x %.1f %s→%s p %.3g]", c.X, c.From, c.To, c.Pressure)
+		}
+	}
+	return b.String()
 }

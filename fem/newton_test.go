@@ -88,7 +88,7 @@ func TestPreloadBar(t *testing.T) {
 		return f, err
 	}
 	const target = 12000.0 // N
-	res, err := s.Preload("slice", target, 0.005, force)
+	res, err := s.Preload("slice", target, force, PreloadOptions{Tolerance: 0.005})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -86,99 +86,229 @@ type PreloadResult struct {
 	Eigenstrain float64 // zz strain locked into the slice
 	Force       float64 // bolt force reached, N
 	Iterations  int     // equilibrium solves used
+	Steps       []PreloadStep
+}
+
+// PreloadStep is one converged state of the preload stage.
+type PreloadStep struct {
+	Eigenstrain float64 // zz strain of the slice
+	Force       float64 // bolt force, N
+	Iterations  int     // Newton iterations of the solve
+}
+
+// PreloadOptions tune the preload stage.
+type PreloadOptions struct {
+	// Tolerance is the relative tolerance on the bolt force (default 0.001).
+	Tolerance float64
+	// Estimate is a first estimate of the slice strain that reaches the
+	// target (negative: a shortening); the stage climbs towards it in
+	// Steps load steps. Zero takes −1e-3.
+	Estimate float64
+	// Steps is the number of load steps to the estimate (default 4).
+	Steps int
+	// MaxCuts bounds the halvings of a failing step in a row (default 6).
+	MaxCuts int
+}
+
+func (o *PreloadOptions) defaults() {
+	if o.Tolerance == 0 {
+		o.Tolerance = 0.001
+	}
+	if o.Estimate == 0 {
+		o.Estimate = -1e-3
+	}
+	if o.Steps == 0 {
+		o.Steps = 4
+	}
+	if o.MaxCuts == 0 {
+		o.MaxCuts = 6
+	}
 }
 
 // Preload finds the axial eigenstrain of region that makes force() equal
-// target within rel (relative). A small probe gives the slope; the
-// eigenstrain is then ramped to its estimate in steps (halved when one
-// fails), and secant steps correct the rest. force measures the bolt force
-// in the current state; every converged state is committed.
-func (s *Solver) Preload(region string, target, rel float64, force func() (float64, error)) (PreloadResult, error) {
+// target, as a load-stepped stage: the slice is shortened in steps of at
+// most a 1/Steps share of the estimate, each started from the last two
+// converged states extrapolated, a failing step halved. Once the bolt
+// force responds, each next strain is the secant root through the last two
+// states, kept inside the bracket of strains known to give too little and
+// too much force (regula falsi, so a gap that closes on the way — the force
+// rising late and steeply — cannot make it jump back and forth), and no
+// larger than the step allowed, which doubles while the force barely
+// responds (a gap still closing). force measures the bolt force in the
+// current state; every converged state is committed.
+func (s *Solver) Preload(region string, target float64, force func() (float64, error), opt PreloadOptions) (PreloadResult, error) {
 	if !(target > 0) {
 		return PreloadResult{}, fmt.Errorf("fem: preload target %g N: must be positive", target)
 	}
+	opt.defaults()
 	res := PreloadResult{Eigenstrain: s.m.Eigenstrain(region)[1]}
-	solveAt := func(e float64) (float64, error) {
-		if err := s.m.SetEigenstrain(region, eigenZZ(e)); err != nil {
-			return 0, err
-		}
-		res.Iterations++
-		s.log(fmt.Sprintf("preload: slice strain %.6g", e))
-		if _, err := s.Equilibrium(); err != nil {
-			s.Revert()
-			if err := s.m.SetEigenstrain(region, eigenZZ(res.Eigenstrain)); err != nil {
-				return 0, err
-			}
-			return 0, err
-		}
-		s.Commit()
-		f, err := force()
-		res.Eigenstrain, res.Force = e, f
-		return f, err
-	}
-	// rampTo moves the eigenstrain to e in steps of at most step, halving
-	// a step that fails.
-	rampTo := func(e, step float64) error {
-		for math.Abs(e-res.Eigenstrain) > 1e-15 {
-			d := math.Copysign(math.Min(step, math.Abs(e-res.Eigenstrain)), e-res.Eigenstrain)
-			if _, err := solveAt(res.Eigenstrain + d); err != nil {
-				if !IsNotConverged(err) || step < 1e-9 {
-					return err
-				}
-				step /= 2
-			}
-		}
-		return nil
-	}
-	e0, f0 := res.Eigenstrain, 0.0
-	if e0 != 0 {
+	path := eigenPath{s: s, region: region, maxCuts: opt.MaxCuts, res: &res, force: force}
+	f := 0.0
+	if res.Eigenstrain != 0 {
 		var err error
-		if f0, err = force(); err != nil {
+		if f, err = force(); err != nil {
 			return res, err
 		}
 	}
-	probe := e0 - 1e-5
-	f1, err := solveAt(probe)
-	if err != nil {
-		return res, err
-	}
-	for it := 0; it < 30; it++ {
-		if math.Abs(f1-target) <= rel*target {
+	res.Force = f
+	limit := math.Abs(opt.Estimate) / float64(opt.Steps)
+	lo, hi := math.Inf(1), math.Inf(-1) // strains known to give too little / too much force (strains are negative)
+	var e0, f0 float64
+	have0 := false
+	for solve := 0; solve < 60; solve++ {
+		e1, f1 := res.Eigenstrain, res.Force
+		if math.Abs(f1-target) <= opt.Tolerance*target {
 			return res, nil
 		}
-		if f1 == f0 {
-			return res, fmt.Errorf("fem: preload: bolt force does not respond to the shortening of %q", region)
+		if f1 < target {
+			lo = math.Min(lo, e1)
+		} else {
+			hi = math.Max(hi, e1)
 		}
-		e1 := res.Eigenstrain
-		next := e1 + (target-f1)*(e1-e0)/(f1-f0)
-		e0, f0 = e1, f1
-		// Ramp in fifths of the way, or of the shortening reached when the
-		// correction is smaller: a secant correction of a few per cent is
-		// one step, as an increment of the ramp would be.
-		if err := rampTo(next, math.Max(math.Abs(next-e1), math.Abs(e1))/5); err != nil {
+		next := e1 - limit
+		if f1 > target {
+			next = e1 + limit
+		}
+		if have0 && f1 != f0 {
+			if slope := (f1 - f0) / (e1 - e0); slope < 0 {
+				want := e1 + (target-f1)/slope
+				next = e1 + math.Copysign(math.Min(math.Abs(want-e1), limit), want-e1)
+			}
+		}
+		if !math.IsInf(lo, 0) && !math.IsInf(hi, 0) && !(next < lo && next > hi) {
+			next = (lo + hi) / 2 // the secant left the bracket
+		}
+		if err := path.moveTo(next); err != nil {
 			return res, err
 		}
-		f1 = res.Force
+		if math.Abs(res.Force-f1) < 0.5*target/float64(opt.Steps) {
+			limit *= 2 // the force barely responds: a gap is still closing
+		}
+		e0, f0, have0 = e1, f1, true
 	}
-	return res, fmt.Errorf("fem: preload: %g N not reached within 30 secant steps (last %g N)", target, f1)
+	return res, fmt.Errorf("fem: preload: %g N not reached within 60 steps (last %g N)", target, res.Force)
 }
 
 // Shorten locks a prescribed shortening (mm) over a slice of length
-// sliceLength into region as an eigenstrain and finds equilibrium: the
-// nut-turn way of preloading.
-func (s *Solver) Shorten(region string, shortening, sliceLength float64) error {
+// sliceLength into region as an eigenstrain, applied in steps equal
+// load steps (halved where one fails): the nut-turn way of preloading.
+// force, if not nil, is recorded after each step.
+func (s *Solver) Shorten(region string, shortening, sliceLength float64, steps int, force func() (float64, error)) (PreloadResult, error) {
+	res := PreloadResult{Eigenstrain: s.m.Eigenstrain(region)[1]}
 	if !(sliceLength > 0) {
-		return fmt.Errorf("fem: preload slice length %g: must be positive", sliceLength)
+		return res, fmt.Errorf("fem: preload slice length %g: must be positive", sliceLength)
 	}
-	if err := s.m.SetEigenstrain(region, eigenZZ(-shortening/sliceLength)); err != nil {
-		return err
+	if steps < 1 {
+		steps = 4
 	}
-	if _, err := s.Equilibrium(); err != nil {
-		s.Revert()
-		return err
+	path := eigenPath{s: s, region: region, maxCuts: 6, res: &res, force: force}
+	from, to := res.Eigenstrain, -shortening/sliceLength
+	for i := 1; i <= steps; i++ {
+		if err := path.moveTo(from + (to-from)*float64(i)/float64(steps)); err != nil {
+			return res, err
+		}
 	}
-	s.Commit()
+	return res, nil
+}
+
+// eigenPath moves a region's eigenstrain through converged states.
+type eigenPath struct {
+	s       *Solver
+	region  string
+	maxCuts int
+	res     *PreloadResult
+	force   func() (float64, error)
+	// prev is the state converged before the last one, and step the
+	// eigenstrain change between the two, for the predictor.
+	prev []float64
+	step float64
+}
+
+// moveTo brings the eigenstrain to e through converged states, halving a
+// step that does not converge (at most maxCuts times in a row).
+func (p *eigenPath) moveTo(e float64) error {
+	s := p.s
+	cuts := 0
+	for math.Abs(e-p.res.Eigenstrain) > 1e-15 {
+		at := p.res.Eigenstrain
+		d := e - at
+		for k := 0; k < cuts; k++ {
+			d /= 2
+		}
+		if err := s.m.SetEigenstrain(p.region, eigenZZ(at+d)); err != nil {
+			return err
+		}
+		p.predict(d)
+		p.res.Iterations++
+		s.log(fmt.Sprintf("preload: slice strain %.6g", at+d))
+		its, err := s.Equilibrium()
+		if err != nil {
+			s.Revert()
+			if err2 := s.m.SetEigenstrain(p.region, eigenZZ(at)); err2 != nil {
+				return err2
+			}
+			if !IsNotConverged(err) || cuts == p.maxCuts {
+				return fmt.Errorf("preload step from slice strain %.4g to %.4g: %w", at, at+d, err)
+			}
+			cuts++
+			s.log(fmt.Sprintf("  not converged (%v); step halved", err))
+			continue
+		}
+		if p.prev == nil {
+			p.prev = make([]float64, len(s.done))
+		}
+		copy(p.prev, s.done)
+		p.step = d
+		s.Commit()
+		p.res.Eigenstrain = at + d
+		if p.force != nil {
+			if p.res.Force, err = p.force(); err != nil {
+				return err
+			}
+		}
+		p.res.Steps = append(p.res.Steps, PreloadStep{Eigenstrain: p.res.Eigenstrain, Force: p.res.Force, Iterations: its})
+		cuts = max(cuts-1, 0)
+	}
 	return nil
+}
+
+// predict starts the solve of an eigenstrain step d from the last two
+// converged states extrapolated (from the last one alone at the first
+// step).
+func (p *eigenPath) predict(d float64) {
+	s := p.s
+	copy(s.u, s.done)
+	if p.prev != nil && p.step != 0 {
+		r := d / p.step
+		for q, eq := range s.m.eq {
+			if eq >= 0 {
+				s.u[q] += r * (s.done[q] - p.prev[q])
+			}
+		}
+	}
+	s.applyPrescribed()
+}
+
+// Prescribe holds dof d at its current value from now on: a support added
+// between stages, such as the loaded edge that the preload leaves free of
+// force and the tension stage then moves. The equations are numbered anew;
+// the state, the material history and the contact state carry over, and
+// the next ramp starts from the tangent's response again.
+func (s *Solver) Prescribe(d Dof) error {
+	if err := s.m.Fix(d, s.u[d]); err != nil {
+		return err
+	}
+	s.m.Number()
+	s.a = newAssembler(s.m)
+	s.groups = s.groups[:0]
+	for _, g := range s.a.eqIdx {
+		s.groups = append(s.groups, g)
+	}
+	s.seen = map[string]bool{}
+	s.before, s.lastStep, s.pendingStep = nil, 0, 0
+	s.couplings = s.couplings[:0]
+	s.forcesValid = false
+	return s.rebuild()
 }
 
 func eigenZZ(e float64) [4]float64 { return [4]float64{0, e, 0, 0} }

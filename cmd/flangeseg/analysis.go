@@ -202,17 +202,32 @@ func (g *segment) supports() error {
 	if err != nil {
 		return err
 	}
-	if err := m.Fix(edge.Axial, 0); err != nil {
-		return err
-	}
+	// The edge's axial motion stays free through the preload (stages.go)
+	// and is held from then on.
 	g.edge = edge
+	// While the preload draws the upper flange down it is held in z only
+	// by the faces and the bolt; a Newton iterate that lifts both off
+	// would leave it free. The same very weak support as the bolt's (see
+	// below) keeps the tangent regular then.
+	weak := 1e-9 * g.shellE / (g.der.D * g.der.D)
+	ring := 0.0
 	if s.Analysis.RingSprings {
+		// E·t/R² per unit wall area, spread over the wall thickness.
 		r := s.Tower.Diameter / 2
-		for _, region := range []string{"upper_shell", "lower_shell"} {
-			// E·t/R² per unit wall area, spread over the wall thickness.
-			if err := m.SetFoundation(region, g.shellE/(r*r), 0); err != nil {
-				return err
-			}
+		ring = g.shellE / (r * r)
+	}
+	for _, region := range []string{"upper_shell", "lower_shell"} {
+		kz := 0.0
+		if strings.HasPrefix(region, "upper_") {
+			kz = weak
+		}
+		if err := m.SetFoundation(region, ring, kz); err != nil {
+			return err
+		}
+	}
+	for _, region := range []string{"upper_flange", "upper_flange_hole"} {
+		if err := m.SetFoundation(region, 0, weak); err != nil {
+			return err
 		}
 	}
 	// Friction at head and nut centres the bolt laterally; while washers
@@ -233,7 +248,6 @@ func (g *segment) supports() error {
 	// some 0.05 N per mm of rigid bolt motion, far below the 1e-6 of the
 	// segment force that equilibrium is checked to) keeps the tangent
 	// regular then.
-	weak := 1e-9 * g.shellE / (g.der.D * g.der.D)
 	for _, r := range g.mesh.Regions {
 		if strings.HasPrefix(r.Name, "bolt_") || r.Name == "nut" || strings.HasSuffix(r.Name, "_washer") {
 			if err := m.SetFoundation(r.Name, weak, weak); err != nil {

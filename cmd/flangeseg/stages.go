@@ -129,81 +129,39 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 }
 
 // preload brings the bolt to its target with the loaded edge free of
-// force: the slice is shortened with the edge held, then the edge is moved
-// to where it carries no force, and the two are repeated until the bolt
-// force holds its target within 0.5 %. It returns the edge position.
+// force throughout: the slice is shortened in load steps (fem.Preload) while
+// the upper flange and shell hang on the bolt and rest on the faces, so a
+// gap between the faces closes as the bolt draws them together, as on
+// site. Then the edge is held where the preload left it, for the tension
+// stage to move it. It returns that position.
 func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 	force := func() (float64, error) {
 		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
 		return f, err
 	}
-	target := g.der.PreloadForce
-	v := 0.0
-	for round := 0; round < 8; round++ {
-		if target > 0 {
-			pr, err := s.Preload("bolt_preload", target, 0.001, force)
-			if err != nil {
-				return 0, err
-			}
-			res.preload = pr
-		} else if err := s.Shorten("bolt_preload", g.der.PreloadShortening, g.slice); err != nil {
-			return 0, err
-		}
-		var err error
-		if v, err = g.release(s, v); err != nil {
-			return 0, err
-		}
-		f, err := force()
-		if err != nil {
-			return 0, err
-		}
-		res.preload.Force = f
-		if target == 0 {
-			res.preload.Eigenstrain = -g.der.PreloadShortening / g.slice
-			return v, nil
-		}
-		if math.Abs(f-target) <= 0.005*target {
-			return v, nil
-		}
+	var err error
+	if target := g.der.PreloadForce; target > 0 {
+		res.preload, err = s.Preload("bolt_preload", target, force, fem.PreloadOptions{Estimate: g.preloadEstimate(target)})
+	} else {
+		res.preload, err = s.Shorten("bolt_preload", g.der.PreloadShortening, g.slice, 4, force)
 	}
-	return 0, fmt.Errorf("preload: the bolt force did not settle at %.1f kN with the shell end free", target/1e3)
-}
-
-// release moves the loaded edge, by secant steps from v, to the position
-// where its reaction vanishes.
-func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
-	m := g.model
-	at := func(x float64) (float64, error) {
-		if err := m.SetValue(g.edge.Axial, x); err != nil {
-			return 0, err
-		}
-		if _, err := s.Equilibrium(); err != nil {
-			s.Revert()
-			return 0, err
-		}
-		s.Commit()
-		return s.Reaction(g.edge.Axial)
-	}
-	z0, err := at(v)
 	if err != nil {
 		return 0, err
 	}
-	scale := math.Max(math.Abs(g.der.PreloadForce), g.der.DesignPreload)
-	v1 := v - 1e-3
-	for it := 0; it < 20; it++ {
-		if math.Abs(z0) <= 1e-7*scale {
-			return v, nil
-		}
-		z1, err := at(v1)
-		if err != nil {
-			return 0, err
-		}
-		if z1 == z0 {
-			return 0, fmt.Errorf("preload: the loaded edge does not respond")
-		}
-		v, v1, z0 = v1, v1-z1*(v1-v)/(z1-z0), z1
+	if err := s.Prescribe(g.edge.Axial); err != nil {
+		return 0, err
 	}
-	return 0, fmt.Errorf("preload: the shell end did not come free of force")
+	return s.U()[g.edge.Axial], nil
+}
+
+// preloadEstimate is a first estimate of the slice strain that gives the
+// bolt force F: the bolt and the clamped flanges taken as springs of about
+// equal stiffness E·A_s/l_k over the clamp length l_k = 2(t_f + t_w), plus
+// the initial gap at the bolt axis that the shortening closes first.
+func (g *segment) preloadEstimate(f float64) float64 {
+	lk := 2 * (g.spec.Flange.Thickness + g.spec.Bolt.WasherThickness)
+	shortening := 2*f*lk/(steelE*g.der.StressArea) + g.faceGap(0)
+	return -shortening / g.slice
 }
 
 // record measures the current state.
