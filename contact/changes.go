@@ -1,7 +1,7 @@
 package contact
 
 // Change is a Gauss point whose contact status changed between the last
-// two evaluations: the trace of a Newton iteration that has not settled
+// two evaluations (a sliding point whose slip turned round counts): the trace of a Newton iteration that has not settled
 // which points touch or slide.
 type Change struct {
 	X, Z     float64 // reference position of the point, mm

@@ -193,10 +193,16 @@ func (p *Pair) evalPoint(i int, cur []Point, st *pointState) pointEval {
 	e.g = e.gGeo + p.points[i].gap0
 	e.keep = p.slidAnchor(&e, cur, 0)
 	e.status = open
+	held := p.heldStatus(i)
+	if held == unpaired && p.bilateral {
+		held = pressed
+	}
 	trial := st.lambdaN - p.set.Penalty*e.g
-	if trial < 0 {
+	if held == open || (held == unpaired && trial < 0) {
 		return e
 	}
+	// A point held pressed keeps the pressed branch even where the trial
+	// pressure has turned tensile (see Freeze).
 	e.pN = trial
 	e.status = pressed
 	if p.set.Friction == 0 || st.anchor.seg < 0 {
@@ -204,22 +210,27 @@ func (p *Pair) evalPoint(i int, cur []Point, st *pointState) pointEval {
 		// increment was accepted) there is nothing to stick to yet.
 		return e
 	}
-	p.returnMap(&e, cur, st)
+	p.returnMap(&e, cur, st, held, p.heldSign(i))
 	return e
 }
 
-// returnMap computes the tangential traction of a pressed point.
-func (p *Pair) returnMap(e *pointEval, cur []Point, st *pointState) {
+// returnMap computes the tangential traction of a pressed point. A point
+// held sticking or sliding (held ≠ unpaired) keeps that branch, sliding
+// in direction sign.
+func (p *Pair) returnMap(e *pointEval, cur []Point, st *pointState, held status, sign float64) {
 	e.anchor = st.anchor
 	e.a = p.masterAt(st.anchor, cur)
 	e.s = e.a.t.dot(e.xs.sub(e.a.x))
 	tr := st.lambdaT + p.set.StickPenalty*e.s
 	limit := p.set.Friction * e.pN
-	if math.Abs(tr) <= limit {
+	if held == sticking || (held != sliding && math.Abs(tr) <= limit) {
 		e.status, e.tT, e.keep = sticking, tr, st.anchor
 		return
 	}
 	e.status, e.sign = sliding, math.Copysign(1, tr)
+	if held == sliding {
+		e.sign = sign
+	}
 	e.tT = e.sign * limit
 	e.keep = p.slidAnchor(e, cur, (e.tT-st.lambdaT)/p.set.StickPenalty)
 }

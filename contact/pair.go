@@ -113,6 +113,14 @@ type Pair struct {
 	changed      []bool
 	lastPressure []float64
 	hasEvaluated bool
+	// flips counts each point's status changes in the current solve;
+	// held, when not nil, the status each point is frozen at (unpaired:
+	// free), lastSign the slip direction of its last evaluation.
+	flips    []uint8
+	held     []status
+	lastSign []float64
+	// bilateral: see SetBilateral.
+	bilateral bool
 }
 
 // gaussPoint is an integration point of the slave surface.
@@ -474,6 +482,8 @@ func (p *Pair) initialState(ref []Point) error {
 	p.before = make([]status, len(p.points))
 	p.changed = make([]bool, len(p.points))
 	p.lastPressure = make([]float64, len(p.points))
+	p.flips = make([]uint8, len(p.points))
+	p.lastSign = make([]float64, len(p.points))
 	facing, same := 0, 0
 	for i := range p.points {
 		st := pointState{anchor: nowhere, hint: -1}

@@ -3,6 +3,7 @@ package fem
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"flangeseg/material"
 	"flangeseg/mesh"
@@ -211,6 +212,22 @@ func (m *Model) DescribeDof(d Dof) string {
 	k := int(d) - nn
 	what := [3]string{"z translation", "x translation", "rotation"}[k%3]
 	return fmt.Sprintf("rigid edge %q, %s", m.edgeSet[k/3], what)
+}
+
+// describePlace names a dof as DescribeDof does, with the region of an
+// element that holds the node.
+func (m *Model) describePlace(d Dof) string {
+	desc := m.DescribeDof(d)
+	if int(d) >= 2*len(m.mesh.Nodes) {
+		return desc
+	}
+	node := int(d) / 2
+	for _, el := range m.mesh.Elements {
+		if slices.Contains(el.Nodes, node) {
+			return desc + " in " + m.mesh.Regions[el.Region].Name
+		}
+	}
+	return desc
 }
 
 func (m *Model) checkDof(d Dof) error {

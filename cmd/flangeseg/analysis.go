@@ -202,31 +202,12 @@ func (g *segment) supports() error {
 	if err != nil {
 		return err
 	}
-	// The edge's axial motion stays free through the preload (stages.go)
-	// and is held from then on.
+	if err := m.Fix(edge.Axial, 0); err != nil {
+		return err
+	}
 	g.edge = edge
-	// While the preload draws the upper flange down it is held in z only
-	// by the faces and the bolt; a Newton iterate that lifts both off
-	// would leave it free. The same very weak support as the bolt's (see
-	// below) keeps the tangent regular then.
-	weak := 1e-9 * g.shellE / (g.der.D * g.der.D)
-	ring := 0.0
-	if s.Analysis.RingSprings {
-		// E·t/R² per unit wall area, spread over the wall thickness.
-		r := s.Tower.Diameter / 2
-		ring = g.shellE / (r * r)
-	}
 	for _, region := range []string{"upper_shell", "lower_shell"} {
-		kz := 0.0
-		if strings.HasPrefix(region, "upper_") {
-			kz = weak
-		}
-		if err := m.SetFoundation(region, ring, kz); err != nil {
-			return err
-		}
-	}
-	for _, region := range []string{"upper_flange", "upper_flange_hole"} {
-		if err := m.SetFoundation(region, 0, weak); err != nil {
+		if err := m.SetFoundation(region, g.ringStiffness(), 0); err != nil {
 			return err
 		}
 	}
@@ -244,10 +225,8 @@ func (g *segment) supports() error {
 	}
 	g.tie = m.NodeDof(axis, fem.X)
 	// In z and in rotation only the washers hold the bolt. A Newton iterate
-	// may lift them off; a very weak support (1e-9·E/d² per unit volume,
-	// some 0.05 N per mm of rigid bolt motion, far below the 1e-6 of the
-	// segment force that equilibrium is checked to) keeps the tangent
-	// regular then.
+	// may lift them off; a very weak support keeps the tangent regular.
+	weak := g.weakSupport()
 	for _, r := range g.mesh.Regions {
 		if strings.HasPrefix(r.Name, "bolt_") || r.Name == "nut" || strings.HasSuffix(r.Name, "_washer") {
 			if err := m.SetFoundation(r.Name, weak, weak); err != nil {
@@ -256,6 +235,23 @@ func (g *segment) supports() error {
 		}
 	}
 	return nil
+}
+
+// weakSupport is a support per unit volume so weak that it never matters
+// to the result (1e-9·E/d², some 0.05 N per mm of rigid bolt motion, far
+// below the 1e-6 of the segment force that equilibrium is checked to) but
+// keeps the tangent regular where a Newton iterate lifts a part off all
+// its contacts.
+func (g *segment) weakSupport() float64 { return 1e-9 * g.shellE / (g.der.D * g.der.D) }
+
+// ringStiffness is the ring springs' stiffness per unit volume of the
+// wall, E/R² (E·t/R² per unit wall area), or zero without them.
+func (g *segment) ringStiffness() float64 {
+	if !g.spec.Analysis.RingSprings {
+		return 0
+	}
+	r := g.spec.Tower.Diameter / 2
+	return g.shellE / (r * r)
 }
 
 // faceGap is the initial gap between the flange faces at x: recesses

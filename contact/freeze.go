@@ -1,0 +1,144 @@
+package contact
+
+import (
+	"fmt"
+	"math"
+)
+
+// Freezing the status of points that keep changing it.
+//
+// Penalty contact with friction makes the residual only piecewise smooth.
+// Where a point sits near a kink of its law — a lightly pressed point at
+// the edge of the contact zone, a point under a washer at the limit
+// between sticking and sliding — Newton's method can jump between the two
+// branches and never settle, although either branch has a solution close
+// to the other. Freezing the points that have changed status twice in one
+// solve at their last status makes the rest of the solve smooth, and
+// Newton's method converges on it; afterwards Thaw measures how far each
+// frozen point's forces are from what its own law gives there, and the
+// solver accepts the state only when that is negligible. This is the
+// active-set stabilisation that Wriggers (Computational Contact Mechanics,
+// 2006, sect. 6.3, active set strategies) and Laursen (2002) describe for
+// oscillating contact constraints: fix the active set, solve, check the
+// inequalities, and correct.
+
+// heldStatus is the status point i is frozen at, or unpaired when free.
+func (p *Pair) heldStatus(i int) status {
+	if p.held == nil {
+		return unpaired
+	}
+	return p.held[i]
+}
+
+func (p *Pair) heldSign(i int) float64 {
+	if p.held == nil {
+		return 0
+	}
+	return p.lastSign[i]
+}
+
+// ResetFlips starts a new equilibrium solve: no point has changed status
+// in it yet and none is frozen.
+func (p *Pair) ResetFlips() {
+	clear(p.flips)
+	p.held = nil
+}
+
+// Freeze holds every point that has changed status at least minFlips
+// times in the current solve at the status it took in the last Evaluate,
+// and returns how many points are held in all. A held point keeps its
+// branch of the contact law — open, pressed, sticking, or sliding in the
+// same direction — until Thaw, whatever its gap or traction says.
+func (p *Pair) Freeze(minFlips int) int {
+	n := 0
+	for i := range p.points {
+		if p.held != nil && p.held[i] != unpaired {
+			n++
+			continue
+		}
+		if int(p.flips[i]) < minFlips || p.trial[i].status == unpaired {
+			continue
+		}
+		if p.held == nil {
+			p.held = make([]status, len(p.points))
+		}
+		p.held[i] = p.trial[i].status
+		n++
+	}
+	return n
+}
+
+// Thaw releases every held point and returns the largest force, N, by
+// which a held point's contact forces differ at cur from those of its own
+// law: |Δp_N| + |Δt_T| times the point's area. Zero when none was held.
+func (p *Pair) Thaw(cur []Point) float64 {
+	if p.held == nil || p.checkCurrent(cur) != nil {
+		p.held = nil
+		return 0
+	}
+	worst := 0.0
+	held := p.held
+	for i, h := range held {
+		if h == unpaired {
+			continue
+		}
+		frozen := p.evalPoint(i, cur, &p.working[i])
+		p.held = nil
+		free := p.evalPoint(i, cur, &p.working[i])
+		p.held = held
+		d := (math.Abs(frozen.pN-free.pN) + math.Abs(frozen.tT-free.tT)) * p.points[i].area
+		worst = math.Max(worst, d)
+	}
+	p.held = nil
+	return worst
+}
+
+// Correct checks every held point against its own law at cur: a point
+// whose forces differ from the law's by more than tol (N) is held at the
+// status its law gives there instead. It returns the largest difference
+// and how many points it changed. This is one step of an active-set
+// iteration over the frozen points; when it changes none, the held state
+// satisfies every law to within tol and Thaw may release it.
+func (p *Pair) Correct(cur []Point, tol float64) (worst float64, changed int) {
+	if p.held == nil || p.checkCurrent(cur) != nil {
+		return 0, 0
+	}
+	held := p.held
+	for i, h := range held {
+		if h == unpaired {
+			continue
+		}
+		frozen := p.evalPoint(i, cur, &p.working[i])
+		p.held = nil
+		free := p.evalPoint(i, cur, &p.working[i])
+		p.held = held
+		d := (math.Abs(frozen.pN-free.pN) + math.Abs(frozen.tT-free.tT)) * p.points[i].area
+		worst = math.Max(worst, d)
+		if d > tol && free.status != unpaired && free.status != h {
+			held[i] = free.status
+			p.lastSign[i] = free.sign
+			changed++
+		}
+	}
+	return worst, changed
+}
+
+// SetBilateral makes every paired point of the pair keep the pressed
+// branch of the normal law (a tie in the normal direction that also holds
+// in tension; friction is unchanged) while on is true. A bolt's washers
+// are pressed throughout the tightening; holding them so while the
+// preload is applied keeps a Newton iterate from lifting the bolt off both
+// of them, which would leave it floating. Check the pressures afterwards.
+func (p *Pair) SetBilateral(on bool) { p.bilateral = on }
+
+// SetFriction changes the Coulomb coefficient from the next evaluation
+// on. Points that have been pressed without friction keep as anchors the
+// master points they were last committed at, so friction taken up again
+// starts from sticking with no elastic slip.
+func (p *Pair) SetFriction(mu float64) error {
+	if !(mu >= 0) || math.IsInf(mu, 0) {
+		return fmt.Errorf("contact: pair %q: friction coefficient %g: must be zero or positive", p.name, mu)
+	}
+	p.set.Friction = mu
+	return nil
+}
