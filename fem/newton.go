@@ -1,7 +1,6 @@
 package fem
 
 import (
-	"os"
 	"errors"
 	"fmt"
 	"math"
@@ -485,7 +484,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			s.thaw()
 			return it - 1, s.watch.failure(it-1, rel, "the residual does not fall below the tolerance")
 		}
-		if it >= debugFreezeAfter() && rel < freezeBelow && s.corrections <= maxThaws {
+		if it >= freezeAfter && rel < freezeBelow && s.corrections <= maxThaws {
 			n := 0
 			for _, p := range s.pairs {
 				n += p.Freeze(2)
@@ -926,14 +925,6 @@ func (s *Solver) iterationNote(r []float64) string {
 		}
 	}
 	return b.String()
-}
-
-func debugFreezeAfter() int {
-	if v := os.Getenv("FS_FREEZE"); v != "" {
-		n, _ := strconv.Atoi(v)
-		return n
-	}
-	return freezeAfter
 }
 
 // watch keeps what a diagnosis of a failed solve needs.

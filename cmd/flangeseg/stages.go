@@ -244,7 +244,6 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 	return 0, fmt.Errorf("preload: the shell end did not come free of force")
 }
 
-
 // preloadEstimate is a first estimate of the slice strain that gives the
 // bolt force F: the bolt and the clamped flanges taken as springs of about
 // equal stiffness E·A_s/l_k over the clamp length l_k = 2(t_f + t_w), plus
