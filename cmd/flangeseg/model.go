@@ -15,7 +15,7 @@ import (
 
 	"github.com/BurntSushi/toml"
 
-	"flangeseg/post/handcalc"
+	"flangeseg/material/bolt"
 )
 
 // Spec is a flange-segment model as its file states it: one struct per
@@ -674,14 +674,14 @@ func defaultMeshSize(t float64) float64 {
 func ptr[T any](x T) *T { return &x }
 
 // thread returns the bolt's thread from its size or its diameter and pitch.
-func (s *Spec) thread() (handcalc.Thread, error) {
+func (s *Spec) thread() (bolt.Thread, error) {
 	if s.Bolt.Size != "" {
-		return handcalc.CoarseThread(s.Bolt.Size)
+		return bolt.CoarseThread(s.Bolt.Size)
 	}
 	if s.Bolt.Diameter == nil || s.Bolt.Pitch == nil {
-		return handcalc.Thread{}, errors.New("no bolt size, or no diameter and pitch")
+		return bolt.Thread{}, errors.New("no bolt size, or no diameter and pitch")
 	}
-	return handcalc.Thread{D: *s.Bolt.Diameter, Pitch: *s.Bolt.Pitch}, nil
+	return bolt.Thread{D: *s.Bolt.Diameter, Pitch: *s.Bolt.Pitch}, nil
 }
 
 // Built-in materials: structural steels and bolt grades, E and ν of steel.
@@ -741,7 +741,7 @@ func (s *Spec) material(name string, thickness float64) (materialInfo, error) {
 		}
 		return info, nil
 	}
-	if g, err := handcalc.NominalGrade(name); err == nil {
+	if g, err := bolt.NominalGrade(name); err == nil {
 		return materialInfo{E: steelE, Nu: steelNu, Yield: g.Fyb}, nil
 	}
 	fy, err := steelYield(name, thickness)
@@ -801,9 +801,9 @@ func (s *Spec) derive() Derived {
 	th, _ := s.thread()
 	d.D, d.Pitch = th.D, th.Pitch
 	d.StressArea, d.NominalArea = th.StressArea(), th.NominalArea()
-	g, _ := handcalc.NominalGrade(s.Bolt.Grade)
+	g, _ := bolt.NominalGrade(s.Bolt.Grade)
 	d.Fub, d.Fyb = g.Fub, g.Fyb
-	d.DesignPreload = handcalc.PreloadForce(d.StressArea, d.Fub)
+	d.DesignPreload = bolt.DesignPreload(d.StressArea, d.Fub)
 	d.YieldForce = d.StressArea * d.Fyb
 	s.derivePreload(&d)
 	s.deriveGeometry(&d)
@@ -902,7 +902,7 @@ func (s *Spec) warnings(d Derived) []string {
 }
 
 func isBuiltin(name string) bool {
-	_, err := handcalc.NominalGrade(name)
+	_, err := bolt.NominalGrade(name)
 	return err == nil || isSteel(name)
 }
 

@@ -10,7 +10,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
-	"flangeseg/post/handcalc"
+	"flangeseg/material/bolt"
 )
 
 // validate checks a complete Spec (one with its defaults filled in, as
@@ -151,7 +151,7 @@ func (s *Spec) checkMaterialName(c *checker, key, name string, grades bool) {
 		}
 		return
 	}
-	_, gradeErr := handcalc.NominalGrade(name)
+	_, gradeErr := bolt.NominalGrade(name)
 	if grades && gradeErr == nil {
 		return
 	}
@@ -179,7 +179,7 @@ func (s *Spec) checkSteelThickness(c *checker, part, name string, t float64) {
 }
 
 // checkBolt checks the bolt's own keys and returns its thread.
-func (s *Spec) checkBolt(c *checker) (handcalc.Thread, bool) {
+func (s *Spec) checkBolt(c *checker) (bolt.Thread, bool) {
 	b := s.Bolt
 	th, ok := s.checkThread(c)
 	c.oneOf("bolt.grade", b.Grade, "8.8", "10.9", "12.9")
@@ -193,34 +193,34 @@ func (s *Spec) checkBolt(c *checker) (handcalc.Thread, bool) {
 	return th, ok && c.usable("bolt.grade")
 }
 
-func (s *Spec) checkThread(c *checker) (handcalc.Thread, bool) {
+func (s *Spec) checkThread(c *checker) (bolt.Thread, bool) {
 	b := s.Bolt
 	switch {
 	case !c.usable("bolt.size", "bolt.diameter", "bolt.pitch"):
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	case b.Size != "" && (b.Diameter != nil || b.Pitch != nil):
 		c.fail("bolt.size", "bolt.size = %q with bolt.diameter or bolt.pitch: give bolt.size or bolt.diameter and bolt.pitch, not both", b.Size)
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	case b.Size != "":
-		th, err := handcalc.CoarseThread(b.Size)
+		th, err := bolt.CoarseThread(b.Size)
 		if err != nil {
-			c.fail("bolt.size", "bolt.size = %q: not an ISO 261 coarse size (known: %s)", b.Size, strings.Join(handcalc.CoarseSizes(), ", "))
+			c.fail("bolt.size", "bolt.size = %q: not an ISO 261 coarse size (known: %s)", b.Size, strings.Join(bolt.CoarseSizes(), ", "))
 		}
 		return th, err == nil
 	case b.Diameter == nil && b.Pitch == nil:
 		c.fail("bolt.size", `bolt.size: missing (give bolt.size, e.g. "M48", or bolt.diameter and bolt.pitch)`)
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	case b.Pitch == nil:
 		c.fail("bolt.pitch", "bolt.pitch: missing (bolt.diameter needs a pitch)")
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	case b.Diameter == nil:
 		c.fail("bolt.diameter", "bolt.diameter: missing (bolt.pitch needs a diameter)")
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	}
 	d, p := *b.Diameter, *b.Pitch
 	ok := c.positive("bolt.diameter", d)
 	ok = c.number("bolt.pitch", p, p > 0 && d-1.2269*p > 0, "must be > 0 and leave a minor diameter d − 1.2269·P > 0") && ok
-	return handcalc.Thread{D: d, Pitch: p}, ok
+	return bolt.Thread{D: d, Pitch: p}, ok
 }
 
 // checkBoltFit checks hole, washer and thread against the bolt diameter d.
