@@ -3,6 +3,8 @@ package main
 import (
 	"io"
 	"testing"
+
+	"flangeseg/fem/segment/modelfile"
 )
 
 // BenchmarkDemo runs the analysis of both demo variants (default mesh,
@@ -13,11 +15,11 @@ func BenchmarkDemo(b *testing.B) {
 	for i := 0; i < b.N; i++ {
 		iterations, equations := 0, 0
 		for _, m := range demoModels() {
-			spec, err := decodeSpec(m.Data)
+			spec, err := modelfile.Decode(m.Data)
 			if err != nil {
 				b.Fatal(err)
 			}
-			g, err := buildSegment(spec, spec.derive())
+			g, err := buildSegment(spec, spec.Derive())
 			if err != nil {
 				b.Fatal(err)
 			}
@@ -55,7 +57,7 @@ func BenchmarkDemoCommand(b *testing.B) {
 // 6 mm, no file output. Run it with -benchtime 1x.
 func BenchmarkFailure(b *testing.B) {
 	for i := 0; i < b.N; i++ {
-		spec, err := decodeSpec(demoModels()[0].Data)
+		spec, err := modelfile.Decode(demoModels()[0].Data)
 		if err != nil {
 			b.Fatal(err)
 		}

@@ -8,6 +8,8 @@ import (
 	"os"
 	"path/filepath"
 	"text/tabwriter"
+
+	"flangeseg/fem/segment/modelfile"
 )
 
 func runDemo(args []string, stdout, stderr io.Writer) int {
@@ -44,7 +46,7 @@ Flags:
 	}
 	models := demoModels()
 	if *toFailure {
-		spec, err := decodeSpec(models[0].Data)
+		spec, err := modelfile.Decode(models[0].Data)
 		if err != nil {
 			fmt.Fprintf(stderr, "demo: %v\n", err)
 			return exitBadInput
@@ -60,7 +62,7 @@ Flags:
 	}
 	jobs := make([]modelJob, len(models))
 	for i, m := range models {
-		spec, err := decodeSpec(m.Data)
+		spec, err := modelfile.Decode(m.Data)
 		if err != nil {
 			fmt.Fprintf(stderr, "demo %s: %v\n", m.Name, err)
 			return exitBadInput

@@ -24,6 +24,7 @@ import (
 	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgsvg"
 
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post"
 	"flangeseg/post/fatigue"
 	"flangeseg/post/handcalc"
@@ -78,7 +79,7 @@ func runFatigue(args []string, stdout, stderr io.Writer) int {
 	if f.out == "" {
 		f.out = strings.TrimSuffix(filepath.Base(path), ".toml") + "_fatigue"
 	}
-	spec, err := loadSpec(path)
+	spec, err := modelfile.Load(path)
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitBadInput
@@ -236,7 +237,7 @@ type fatigueJob struct {
 }
 
 func newFatigueJob(spec *Spec, path string, f fatigueFlags) (*fatigueJob, error) {
-	j := &fatigueJob{spec: spec, path: path, flags: f, der: spec.derive()}
+	j := &fatigueJob{spec: spec, path: path, flags: f, der: spec.Derive()}
 	curve, err := j.curve()
 	if err != nil {
 		return nil, err
@@ -251,7 +252,7 @@ func newFatigueJob(spec *Spec, path string, f fatigueFlags) (*fatigueJob, error)
 		}
 		j.fns = append(j.fns, fe)
 	}
-	hand, err := handcalc.Analyze(spec.handJoint(j.der), handcalc.DefaultParams())
+	hand, err := handcalc.Analyze(spec.HandJoint(j.der), handcalc.DefaultParams())
 	if err != nil {
 		return nil, fmt.Errorf("%s: hand methods: %w", path, err)
 	}
@@ -351,7 +352,7 @@ func (j *fatigueJob) feFunction() (*boltFunction, error) {
 	// The A_s check catches another bolt; the resolved model catches any
 	// other difference (a run keeps the model it was made from).
 	if ran, err := os.ReadFile(filepath.Join(j.flags.from, "model.resolved.toml")); err == nil {
-		if mine, err := j.spec.resolvedTOML(); err == nil && !bytes.Equal(ran, mine) {
+		if mine, err := j.spec.ResolvedTOML(); err == nil && !bytes.Equal(ran, mine) {
 			j.warnings = append(j.warnings, fmt.Sprintf("--from %s: its model.resolved.toml differs from %s: the FE bolt-force function may belong to another joint", j.flags.from, j.path))
 		}
 	}

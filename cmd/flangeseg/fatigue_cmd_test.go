@@ -16,7 +16,7 @@ import (
 func fatigueRun(t *testing.T, slope, moment, zmax float64) (dir string, as float64) {
 	t.Helper()
 	spec := demoSpec(t, "flat")
-	as = spec.derive().StressArea
+	as = spec.Derive().StressArea
 	dir = t.TempDir()
 	var b strings.Builder
 	b.WriteString("increment,stage,Z_kN,u_mm,bolt_force_kN,bolt_moment_interface_kNm,bolt_moment_head_kNm,bolt_stress_axial_MPa,bolt_stress_bending_MPa,gap_edge_mm\n")

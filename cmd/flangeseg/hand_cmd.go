@@ -58,8 +58,8 @@ Flags:
 	if !ok {
 		return exitBadInput
 	}
-	d := s.derive()
-	r, err := handcalc.Analyze(s.handJoint(d), handcalc.DefaultParams())
+	d := s.Derive()
+	r, err := handcalc.Analyze(s.HandJoint(d), handcalc.DefaultParams())
 	if err != nil {
 		fmt.Fprintf(stderr, "%s: hand methods: %v\n", path, err)
 		return exitBadInput

@@ -7,6 +7,7 @@ import (
 	"os"
 	"path/filepath"
 
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post"
 )
 
@@ -36,12 +37,12 @@ Flags:
 		return exitBadInput
 	}
 	path := fs.Arg(0)
-	spec, err := loadSpec(path)
+	spec, err := modelfile.Load(path)
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitBadInput
 	}
-	seg, err := buildSegment(spec, spec.derive())
+	seg, err := buildSegment(spec, spec.Derive())
 	if err != nil {
 		fmt.Fprintf(stderr, "%s: %v\n", path, err)
 		return exitBadInput

@@ -109,7 +109,7 @@ func writeResults(dir, modelPath string, g *segment, res *analysis) (summary, er
 	if err := os.MkdirAll(filepath.Join(dir, "fields"), 0o755); err != nil {
 		return sum, err
 	}
-	resolved, err := g.spec.resolvedTOML()
+	resolved, err := g.spec.ResolvedTOML()
 	if err != nil {
 		return sum, err
 	}

@@ -13,6 +13,7 @@ import (
 
 	"github.com/BurntSushi/toml"
 
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/mesh"
 	"flangeseg/post"
 	"flangeseg/post/handcalc"
@@ -65,7 +66,7 @@ func writeCompareReport(dir string, names []string, jobs []modelJob, sums []summ
 	c := report.Compare{Caution: caution}
 	var titles, sha []string
 	for i, j := range jobs {
-		g, err := buildSegment(j.spec, j.spec.derive())
+		g, err := buildSegment(j.spec, j.spec.Derive())
 		if err != nil {
 			return fmt.Errorf("report: %s: %w", j.path, err)
 		}
@@ -147,7 +148,7 @@ func (n *runNote) report() (report.Report, error) {
 // resolvedHash is the start of the SHA-256 of the resolved model: it
 // names the input exactly without reading a clock or the file system.
 func resolvedHash(s *Spec) (string, error) {
-	b, err := s.resolvedTOML()
+	b, err := s.ResolvedTOML()
 	if err != nil {
 		return "", err
 	}
@@ -251,7 +252,7 @@ func modelKeys(path string, s *Spec) keySources {
 		}
 	}
 	for _, data := range candidates {
-		decoded, err := decodeSpec(data)
+		decoded, err := modelfile.Decode(data)
 		if err != nil || !reflect.DeepEqual(decoded, s) {
 			continue
 		}
@@ -270,9 +271,9 @@ func (k keySources) source(path string) string {
 	if k.md.IsDefined(strings.Split(path, ".")...) {
 		return srcFile
 	}
-	for _, d := range keyDefaults() {
-		if d.key == path {
-			return "default: " + d.text
+	for _, d := range modelfile.KeyDefaults() {
+		if d.Key == path {
+			return "default: " + d.Text
 		}
 	}
 	return "default"
@@ -293,7 +294,7 @@ func (n *runNote) inputs() []report.Quantities {
 			continue // title is the note's title; [materials] follows
 		}
 		q := report.Quantities{Caption: inputCaptions[sec] + " — [" + sec + "]"}
-		names, _ := tomlFields(table.Type())
+		names := modelfile.TableKeys(table.Type())
 		for j, key := range names {
 			path := sec + "." + key
 			cell, ok := inputCell(path, keys[path], table.Field(j))
@@ -309,7 +310,7 @@ func (n *runNote) inputs() []report.Quantities {
 		}
 		out = append(out, q)
 	}
-	for _, name := range sortedNames(s.Materials) {
+	for _, name := range s.MaterialNames() {
 		out = append(out, materialInputs(name, s.Materials[name]))
 	}
 	return out

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/mesh"
 	"flangeseg/post"
 )
@@ -161,7 +162,7 @@ func TestReportInputKeysCoverSpec(t *testing.T) {
 		if _, ok := inputCaptions[sec]; !ok {
 			t.Errorf("table [%s] has no caption", sec)
 		}
-		names, _ := tomlFields(f.Type)
+		names := modelfile.TableKeys(f.Type)
 		for j, key := range names {
 			path := sec + "." + key
 			seen[path] = true
@@ -205,7 +206,7 @@ func TestReportComparedFiguresMatch(t *testing.T) {
 // either.
 func TestReportKeySources(t *testing.T) {
 	m := demoModels()[1]
-	s, err := decodeSpec(m.Data)
+	s, err := modelfile.Decode(m.Data)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -243,12 +244,12 @@ func TestReportNodalPlastic(t *testing.T) {
 // A run that stopped in the preload stage still gets its note; the
 // sections without data say so.
 func TestReportPreloadFailed(t *testing.T) {
-	spec, err := decodeSpec(demoModels()[0].Data)
+	spec, err := modelfile.Decode(demoModels()[0].Data)
 	if err != nil {
 		t.Fatal(err)
 	}
 	spec.Mesh.Size, spec.Mesh.Refine = 16, 0.5
-	g, err := buildSegment(spec, spec.derive())
+	g, err := buildSegment(spec, spec.Derive())
 	if err != nil {
 		t.Fatal(err)
 	}

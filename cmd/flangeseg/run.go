@@ -11,8 +11,10 @@ import (
 
 	"github.com/schollz/progressbar/v3"
 
-	"flangeseg/fem/sparse"
 	"golang.org/x/term"
+
+	"flangeseg/fem/segment/modelfile"
+	"flangeseg/fem/sparse"
 )
 
 func runRun(args []string, stdout, stderr io.Writer) int {
@@ -51,7 +53,7 @@ Flags:
 	if dir == "" {
 		dir = strings.TrimSuffix(filepath.Base(path), ".toml") + "_results"
 	}
-	spec, err := loadSpec(path)
+	spec, err := modelfile.Load(path)
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitBadInput
@@ -71,7 +73,7 @@ type runFlags struct {
 // runModel runs one valid model and writes its results; it returns the
 // exit code.
 func runModel(spec *Spec, path, dir string, flags runFlags, stdout, stderr io.Writer) int {
-	d := spec.derive()
+	d := spec.Derive()
 	for _, w := range d.Warnings {
 		fmt.Fprintf(stderr, "%s: warning: %s\n", path, w)
 	}

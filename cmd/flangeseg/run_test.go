@@ -1,12 +1,14 @@
 package main
 
 import (
-	"flangeseg/post/handcalc"
 	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"flangeseg/fem/segment/modelfile"
+	"flangeseg/post/handcalc"
 )
 
 // coarseDemo is the flat demo joint on a coarse mesh with few increments,
@@ -19,7 +21,7 @@ func coarseDemo(t *testing.T, edit func(*Spec)) (*segment, *analysis) {
 // coarseModel is coarseDemo for demo model i (0 flat face, 1 bands).
 func coarseModel(t *testing.T, i int, edit func(*Spec)) (*segment, *analysis) {
 	t.Helper()
-	spec, err := decodeSpec(demoModels()[i].Data)
+	spec, err := modelfile.Decode(demoModels()[i].Data)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -28,7 +30,7 @@ func coarseModel(t *testing.T, i int, edit func(*Spec)) (*segment, *analysis) {
 	if edit != nil {
 		edit(spec)
 	}
-	if err := spec.validate(); err != nil {
+	if err := spec.Validate(); err != nil {
 		t.Fatal(err)
 	}
 	return analyseSpec(t, spec)
@@ -38,7 +40,7 @@ func coarseModel(t *testing.T, i int, edit func(*Spec)) (*segment, *analysis) {
 // analysis that stops early fails the test.
 func analyseSpec(tb testing.TB, spec *Spec) (*segment, *analysis) {
 	tb.Helper()
-	g, err := buildSegment(spec, spec.derive())
+	g, err := buildSegment(spec, spec.Derive())
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -72,9 +74,9 @@ func TestPreloadWays(t *testing.T) {
 		name string
 		edit func(*Spec)
 	}{
-		{"force", func(s *Spec) { s.Preload = PreloadSpec{Force: &force} }},
-		{"fraction", func(s *Spec) { s.Preload = PreloadSpec{Fraction: &fraction} }},
-		{"nut turn", func(s *Spec) { s.Preload = PreloadSpec{NutTurn: &turn} }},
+		{"force", func(s *Spec) { s.Preload = modelfile.PreloadSpec{Force: &force} }},
+		{"fraction", func(s *Spec) { s.Preload = modelfile.PreloadSpec{Fraction: &fraction} }},
+		{"nut turn", func(s *Spec) { s.Preload = modelfile.PreloadSpec{NutTurn: &turn} }},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -239,7 +241,7 @@ func TestMeshConvergence(t *testing.T) {
 	increase := map[float64]float64{}
 	total := map[float64]float64{}
 	for _, size := range []float64{8, 5} {
-		spec, err := decodeSpec(demoModels()[0].Data)
+		spec, err := modelfile.Decode(demoModels()[0].Data)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -339,7 +341,7 @@ func TestHingeLimitLoad(t *testing.T) {
 	if testing.Short() {
 		t.Skip("an elastoplastic analysis")
 	}
-	spec, err := loadSpec(filepath.Join("..", "..", "testdata", "hinge_mode_c.toml"))
+	spec, err := modelfile.Load(filepath.Join("..", "..", "testdata", "hinge_mode_c.toml"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -383,7 +385,7 @@ func TestThreadTrend(t *testing.T) {
 	}
 	type outcome struct{ peak, end float64 }
 	runThread := func(thread string) outcome {
-		spec, err := decodeSpec(demoModels()[0].Data)
+		spec, err := modelfile.Decode(demoModels()[0].Data)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -391,10 +393,10 @@ func TestThreadTrend(t *testing.T) {
 		spec.Mesh.Size, spec.Mesh.Refine = 12, 0.5
 		spec.Load.MaxDisplacement, spec.Load.Increments = 32, 48
 		spec.Bolt.Thread = thread
-		if thread == threadFull {
+		if thread == modelfile.ThreadFull {
 			spec.Bolt.ThreadLength = nil
 		}
-		if err := spec.validate(); err != nil {
+		if err := spec.Validate(); err != nil {
 			t.Fatal(err)
 		}
 		g, res := analyseSpec(t, spec)
@@ -402,7 +404,7 @@ func TestThreadTrend(t *testing.T) {
 		t.Logf("%s thread: peak %.1f kN at %.2f mm, end %.2f mm (%s); %s", thread, f.PeakLoadKN, f.DisplacementPeakMM, f.DisplacementEndMM, res.ending, f.FailureLocation)
 		return outcome{f.PeakLoadKN, f.DisplacementEndMM}
 	}
-	partial, full := runThread(threadPartial), runThread(threadFull)
+	partial, full := runThread(modelfile.ThreadPartial), runThread(modelfile.ThreadFull)
 	if r := partial.peak / full.peak; r <= 1 || r >= 1.2 {
 		t.Errorf("peak partial/full = %.3f: want above 1 and below 1.2", r)
 	}
@@ -420,11 +422,11 @@ func TestModeA(t *testing.T) {
 	if testing.Short() {
 		t.Skip("an analysis to failure")
 	}
-	spec, err := loadSpec(filepath.Join("..", "..", "testdata", "mode_a.toml"))
+	spec, err := modelfile.Load(filepath.Join("..", "..", "testdata", "mode_a.toml"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	d := spec.derive()
+	d := spec.Derive()
 	g, res := analyseSpec(t, spec)
 	f := figures(g, res)
 	capacity := d.StressArea * d.Fub / 1e3
