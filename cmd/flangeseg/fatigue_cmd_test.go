@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"flangeseg/post/fatigue/assess"
 )
 
 // fatigueRun writes a synthetic run directory for the flat demo model: a
@@ -46,13 +48,13 @@ func writeFile(t *testing.T, dir, name, text string) string {
 	return p
 }
 
-func readFatigueSummary(t *testing.T, dir string) fatigueSummary {
+func readFatigueSummary(t *testing.T, dir string) assess.Summary {
 	t.Helper()
 	data, err := os.ReadFile(filepath.Join(dir, "fatigue_summary.json"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	var s fatigueSummary
+	var s assess.Summary
 	if err := json.Unmarshal(data, &s); err != nil {
 		t.Fatal(err)
 	}
