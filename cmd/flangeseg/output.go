@@ -45,17 +45,17 @@ func historyTable(g *segment, res *analysis) (post.Table, error) {
 
 // summary is summary.json.
 type summary struct {
-	Title     string           `json:"title"`
-	Model     string           `json:"model"`
-	Caution   string           `json:"caution"`
-	Converged bool             `json:"converged"`
-	Ending    string           `json:"ending"`
-	Failure   string           `json:"failure,omitempty"`
-	Joint     jointFigures     `json:"joint"`
-	Mesh      meshSummary      `json:"mesh"`
-	Solver    solverSummary    `json:"solver"`
-	Hand      handcalc.Results `json:"hand_methods"`
-	Verdict   *verdict         `json:"verdict,omitempty"` // with [load] design_force
+	Title     string            `json:"title"`
+	Model     string            `json:"model"`
+	Caution   string            `json:"caution"`
+	Converged bool              `json:"converged"`
+	Ending    string            `json:"ending"`
+	Failure   string            `json:"failure,omitempty"`
+	Joint     jointFigures      `json:"joint"`
+	Mesh      meshSummary       `json:"mesh"`
+	Solver    solverSummary     `json:"solver"`
+	Hand      handcalc.Results  `json:"hand_methods"`
+	Verdict   *handcalc.Verdict `json:"verdict,omitempty"` // with [load] design_force
 }
 
 type meshSummary struct {
@@ -87,7 +87,7 @@ func makeSummary(path string, g *segment, res *analysis) summary {
 	s := summary{
 		Title: g.spec.Title, Model: filepath.Base(path), Caution: caution,
 		Converged: res.failure == nil, Ending: res.ending, Joint: figures(g, res), Hand: g.hand,
-		Verdict: handVerdict(g.hand, g.spec.Load.DesignForce, defaultBorderline),
+		Verdict: handcalc.CheckDesignForce(g.hand, g.spec.Load.DesignForce, handcalc.DefaultBorderline),
 		Mesh: meshSummary{Nodes: len(g.mesh.Nodes), Elements: len(g.mesh.Elements), Equations: res.equation,
 			Element: g.spec.Mesh.Element, MinJacobianRatio: q.MinJacobianRatio, MaxAspectRatio: q.MaxAspectRatio},
 		Solver: solverSummary{Increments: len(res.rows) - 1, NewtonIterations: res.timing.Iterations,

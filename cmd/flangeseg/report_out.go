@@ -545,7 +545,7 @@ func (n *runNote) results() report.Quantities {
 }
 
 // verdictText is the verdict in a sentence, as `flangeseg hand` prints it.
-func verdictText(v *verdict) string {
+func verdictText(v *handcalc.Verdict) string {
 	switch {
 	case v.Borderline:
 		return "borderline: a refined check is worth making"
