@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 
+	"flangeseg/fem/segment"
 	"flangeseg/post"
 )
 
@@ -55,7 +56,7 @@ Flags:
 		return code
 	}
 	compareTable(stdout, names, sums)
-	if err := writeCompareReport(*outDir, names, jobs, sums); err != nil {
+	if err := segment.WriteCompareReport(*outDir, names, jobs, sums); err != nil {
 		fmt.Fprintf(stderr, "flangeseg compare: writing the report: %v\n", err)
 		return exitAnalysis
 	}
@@ -69,8 +70,8 @@ Flags:
 
 // compareJobs loads every model (all errors are reported before any run)
 // and gives each a run directory named after its file.
-func compareJobs(paths []string, dir string, stderr io.Writer) ([]modelJob, []string, bool) {
-	var jobs []modelJob
+func compareJobs(paths []string, dir string, stderr io.Writer) ([]segment.ModelJob, []string, bool) {
+	var jobs []segment.ModelJob
 	var names []string
 	used := map[string]int{}
 	ok := true
@@ -89,14 +90,14 @@ func compareJobs(paths []string, dir string, stderr io.Writer) ([]modelJob, []st
 			name = fmt.Sprintf("%s_%d", name, n)
 		}
 		names = append(names, name)
-		jobs = append(jobs, modelJob{spec: spec, path: path, dir: filepath.Join(dir, name)})
+		jobs = append(jobs, segment.ModelJob{Spec: spec, Path: path, Dir: filepath.Join(dir, name)})
 	}
 	return jobs, names, ok
 }
 
 // writeComparison writes the table as CSV (one row per model) and the
 // overlaid curves.
-func writeComparison(dir string, names []string, jobs []modelJob, sums []summary) error {
+func writeComparison(dir string, names []string, jobs []segment.ModelJob, sums []segment.Summary) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}
@@ -112,7 +113,7 @@ func writeComparison(dir string, names []string, jobs []modelJob, sums []summary
 			return err
 		}
 		for i, s := range sums {
-			row := []string{names[i], jobs[i].path}
+			row := []string{names[i], jobs[i].Path}
 			for _, q := range quantities {
 				v, base := q.get(s), q.get(sums[0])
 				ratio := ""
@@ -135,7 +136,7 @@ func writeComparison(dir string, names []string, jobs []modelJob, sums []summary
 	fsz := post.Plot{Title: "Bolt force against segment force", XLabel: "Z [kN]", YLabel: "F_s [kN]"}
 	zu := post.Plot{Title: "Segment force against displacement", XLabel: "u [mm]", YLabel: "Z [kN]"}
 	for i, j := range jobs {
-		h, err := readHistoryColumns(filepath.Join(j.dir, "history.csv"))
+		h, err := segment.ReadHistoryColumns(filepath.Join(j.Dir, "history.csv"))
 		if err != nil {
 			return err
 		}
@@ -146,37 +147,4 @@ func writeComparison(dir string, names []string, jobs []modelJob, sums []summary
 		return err
 	}
 	return post.WritePlot(filepath.Join(dir, "compare_Z_u"), zu)
-}
-
-// readHistoryColumns reads the numeric columns of a run's history.csv.
-func readHistoryColumns(path string) (map[string][]float64, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	records, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	if len(records) < 2 {
-		return nil, fmt.Errorf("%s: no rows", path)
-	}
-	cols := map[string][]float64{}
-	for _, r := range records[1:] {
-		for c, name := range records[0] {
-			if c >= len(r) {
-				continue
-			}
-			if v, err := strconv.ParseFloat(r[c], 64); err == nil {
-				cols[name] = append(cols[name], v)
-			}
-		}
-	}
-	for _, need := range []string{"Z_kN", "u_mm", "bolt_force_kN"} {
-		if len(cols[need]) != len(records)-1 {
-			return nil, fmt.Errorf("%s: column %s missing or incomplete", path, need)
-		}
-	}
-	return cols, nil
 }

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"flangeseg/fem/segment"
 	"flangeseg/fem/segment/modelfile"
 )
 
@@ -107,10 +108,24 @@ func TestToFailureVariant(t *testing.T) {
 		t.Fatal(err)
 	}
 	toFailureVariant(s)
-	if s.Analysis.Materials != elastoplastic || !s.Analysis.LargeDeformation || !(s.Load.MaxDisplacement >= 20) {
+	if s.Analysis.Materials != modelfile.Elastoplastic || !s.Analysis.LargeDeformation || !(s.Load.MaxDisplacement >= 20) {
 		t.Errorf("variant %+v, %+v", s.Analysis, s.Load)
 	}
 	if err := s.Validate(); err != nil {
 		t.Error(err)
+	}
+}
+
+// The note's comparison rows are those of the printed table and
+// comparison.csv, in the same order.
+func TestReportComparedFiguresMatch(t *testing.T) {
+	a, b := segment.ComparedColumns(), comparedQuantities()
+	if len(a) != len(b) {
+		t.Fatalf("%d figures in the note, %d in the table", len(a), len(b))
+	}
+	for i := range a {
+		if a[i] != b[i].column {
+			t.Errorf("row %d: note %s, table %s", i, a[i], b[i].column)
+		}
 	}
 }

@@ -144,7 +144,7 @@ Flags:
 func (f fatigueFlags) check() error {
 	var errs []error
 	bad := func(flag string, v float64, rule string) {
-		errs = append(errs, fmt.Errorf("flangeseg fatigue: --%s = %s: %s", flag, fnum(v), rule))
+		errs = append(errs, fmt.Errorf("flangeseg fatigue: --%s = %s: %s", flag, modelfile.FormatNumber(v), rule))
 	}
 	finite := func(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 	if f.Loads == "" {

@@ -7,6 +7,7 @@ import (
 	"io"
 	"text/tabwriter"
 
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post/handcalc"
 )
 
@@ -44,7 +45,7 @@ Flags:
 		return exitBadInput
 	}
 	if !(*margin >= 0 && *margin < 1) {
-		fmt.Fprintf(stderr, "flangeseg hand: --margin = %s: must lie in [0, 1)\n", fnum(*margin))
+		fmt.Fprintf(stderr, "flangeseg hand: --margin = %s: must lie in [0, 1)\n", modelfile.FormatNumber(*margin))
 		return exitBadInput
 	}
 	path := fs.Arg(0)
@@ -78,13 +79,13 @@ Flags:
 	return exitOK
 }
 
-func printHand(w io.Writer, s *Spec, d Derived, r handcalc.Results, v *handcalc.Verdict) {
+func printHand(w io.Writer, s *modelfile.Spec, d modelfile.Derived, r handcalc.Results, v *handcalc.Verdict) {
 	b := r.Bolt
 	fmt.Fprintf(w, "%s — hand methods\n\n", s.Title)
-	fmt.Fprintf(w, "Bolt %s %s (EN 1993-1-8 nominal f_ub = %s MPa, f_yb = %s MPa)\n", s.Bolt.Size, s.Bolt.Grade, fnum(b.Nominal.Fub), fnum(b.Nominal.Fyb))
+	fmt.Fprintf(w, "Bolt %s %s (EN 1993-1-8 nominal f_ub = %s MPa, f_yb = %s MPa)\n", s.Bolt.Size, s.Bolt.Grade, modelfile.FormatNumber(b.Nominal.Fub), modelfile.FormatNumber(b.Nominal.Fyb))
 	fmt.Fprintf(w, "  stress area A_s          %8.1f mm²  (ISO 898-1)\n", b.StressArea)
 	fmt.Fprintf(w, "  F_t,Rd = k2·f_ub·A_s/γM2 %8.1f kN   (EN 1993-1-8 Table 3.4, k2 = %s, γM2 = %s)\n",
-		b.TensionResistance/1e3, fnum(r.Params.K2), fnum(r.Params.GammaM2))
+		b.TensionResistance/1e3, modelfile.FormatNumber(r.Params.K2), modelfile.FormatNumber(r.Params.GammaM2))
 	fmt.Fprintf(w, "  F_p,C = 0.7·f_ub·A_s     %8.1f kN   (EN 1993-1-8, 3.9)\n", b.PreloadForce/1e3)
 	fmt.Fprintf(w, "  preload used by the bolt-force models F_p %.1f kN\n\n", r.JointDiagram.Preload/1e3)
 

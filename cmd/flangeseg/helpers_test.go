@@ -15,7 +15,7 @@ func near(got, want, rel float64) bool {
 
 func ptr[T any](x T) *T { return &x }
 
-func demoSpec(t *testing.T, name string) *Spec {
+func demoSpec(t *testing.T, name string) *modelfile.Spec {
 	t.Helper()
 	for _, m := range demoModels() {
 		if m.Name == name {

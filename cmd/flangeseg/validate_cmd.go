@@ -37,7 +37,7 @@ func runValidate(args []string, stdout, stderr io.Writer) int {
 // loadOrReport loads a model file; if it cannot, it writes every error
 // (an invalid model: each broken rule and their count) to stderr and
 // reports false.
-func loadOrReport(path, command string, stderr io.Writer) (*Spec, bool) {
+func loadOrReport(path, command string, stderr io.Writer) (*modelfile.Spec, bool) {
 	s, err := modelfile.Load(path)
 	var me *modelfile.Error
 	switch {
@@ -93,7 +93,7 @@ Exit codes: 0 the model is valid, 2 it is invalid or cannot be read.
 
 // printModel writes the resolved model, its derived quantities and the
 // warnings.
-func printModel(w io.Writer, path string, s *Spec) error {
+func printModel(w io.Writer, path string, s *modelfile.Spec) error {
 	resolved, err := s.ResolvedTOML()
 	if err != nil {
 		return err
@@ -125,7 +125,7 @@ func g5(x float64) string { return fmt.Sprintf("%.5g", x) }
 func kN(x float64) string { return fmt.Sprintf("%.1f", x/1e3) }
 
 // derivedRows lists the derived quantities as label, value, unit.
-func derivedRows(s *Spec, d Derived) [][3]string {
+func derivedRows(s *modelfile.Spec, d modelfile.Derived) [][3]string {
 	rows := [][3]string{
 		{"bolt diameter d, pitch P", g5(d.D) + ", " + g5(d.Pitch), "mm"},
 		{"nominal area A = π·d²/4", g5(d.NominalArea), "mm²"},
@@ -135,7 +135,7 @@ func derivedRows(s *Spec, d Derived) [][3]string {
 		{"yield force A_s·f_yb", kN(d.YieldForce), "kN"},
 	}
 	if s.Preload.NutTurn != nil {
-		rows = append(rows, [3]string{fmt.Sprintf("preload shortening (nut turn %s° · P/360°)", fnum(*s.Preload.NutTurn)), g5(d.PreloadShortening), "mm"})
+		rows = append(rows, [3]string{fmt.Sprintf("preload shortening (nut turn %s° · P/360°)", modelfile.FormatNumber(*s.Preload.NutTurn)), g5(d.PreloadShortening), "mm"})
 	} else {
 		rows = append(rows, [3]string{"target preload F_p", kN(d.PreloadForce), "kN"})
 	}

@@ -1,4 +1,4 @@
-package main
+package segment
 
 import (
 	"bytes"
@@ -20,7 +20,7 @@ type reportRun struct {
 	g   *segment
 	res *analysis
 	sum summary
-	job modelJob
+	job ModelJob
 }
 
 func newReportRun(t *testing.T, i int) reportRun {
@@ -43,7 +43,7 @@ func newReportRun(t *testing.T, i int) reportRun {
 	if err := post.WriteJSON(filepath.Join(dir, "summary.json"), sum); err != nil {
 		t.Fatal(err)
 	}
-	return reportRun{g: g, res: res, sum: sum, job: modelJob{spec: g.spec, path: path, dir: dir}}
+	return reportRun{g: g, res: res, sum: sum, job: ModelJob{Spec: g.spec, Path: path, Dir: dir, Text: demoModels()[i].Data}}
 }
 
 func readFile(t *testing.T, path string) []byte {
@@ -83,18 +83,18 @@ var runSections = []string{"Joint section and dimensions", "Inputs", "Preload", 
 // bytes when written again.
 func TestReportRunAndCompare(t *testing.T) {
 	runs := []reportRun{newReportRun(t, 0), newReportRun(t, 1)}
-	var jobs []modelJob
+	var jobs []ModelJob
 	var sums []summary
 	for _, r := range runs {
-		if err := writeRunReport(r.job.dir, r.job.path, r.g, r.res, r.sum); err != nil {
+		if err := writeRunReport(r.job.Dir, r.job.Path, r.job.Text, r.g, r.res, r.sum); err != nil {
 			t.Fatal(err)
 		}
-		first := readFile(t, filepath.Join(r.job.dir, "report.html"))
-		if err := writeRunReport(r.job.dir, r.job.path, r.g, r.res, r.sum); err != nil {
+		first := readFile(t, filepath.Join(r.job.Dir, "report.html"))
+		if err := writeRunReport(r.job.Dir, r.job.Path, r.job.Text, r.g, r.res, r.sum); err != nil {
 			t.Fatal(err)
 		}
-		if !bytes.Equal(first, readFile(t, filepath.Join(r.job.dir, "report.html"))) {
-			t.Errorf("%s: report.html differs between two writes", r.job.path)
+		if !bytes.Equal(first, readFile(t, filepath.Join(r.job.Dir, "report.html"))) {
+			t.Errorf("%s: report.html differs between two writes", r.job.Path)
 		}
 		page := string(first)
 		checkPage(t, page, runSections)
@@ -110,11 +110,11 @@ func TestReportRunAndCompare(t *testing.T) {
 			"not assessed: linear elastic materials", // the demo is elastic: no FE ultimate load
 		} {
 			if !strings.Contains(page, want) {
-				t.Errorf("%s: report.html lacks %q", r.job.path, want)
+				t.Errorf("%s: report.html lacks %q", r.job.Path, want)
 			}
 		}
 		if strings.Contains(page, "Equivalent plastic strain") {
-			t.Errorf("%s: plastic strain pictured for an elastic run", r.job.path)
+			t.Errorf("%s: plastic strain pictured for an elastic run", r.job.Path)
 		}
 		jobs, sums = append(jobs, r.job), append(sums, r.sum)
 	}
@@ -187,20 +187,6 @@ func TestReportInputKeysCoverSpec(t *testing.T) {
 	}
 }
 
-// The note's comparison rows are those of the printed table and
-// comparison.csv, in the same order.
-func TestReportComparedFiguresMatch(t *testing.T) {
-	a, b := comparedFigures(), comparedQuantities()
-	if len(a) != len(b) {
-		t.Fatalf("%d figures in the note, %d in the table", len(a), len(b))
-	}
-	for i := range a {
-		if a[i].column != b[i].column {
-			t.Errorf("row %d: note %s, table %s", i, a[i].column, b[i].column)
-		}
-	}
-}
-
 // Sources of the inputs: the demo model as embedded gives flange.a and
 // leaves load.stop_drop to its default; an edited Spec is not claimed for
 // either.
@@ -210,7 +196,7 @@ func TestReportKeySources(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	src := modelKeys(filepath.Join(t.TempDir(), m.Name+".toml"), s)
+	src := modelKeys(filepath.Join(t.TempDir(), m.Name+".toml"), m.Data, s)
 	if got := src.source("flange.a"); got != srcFile {
 		t.Errorf("flange.a: source %q, want %q", got, srcFile)
 	}
@@ -218,7 +204,7 @@ func TestReportKeySources(t *testing.T) {
 		t.Errorf("load.stop_drop: source %q, want the default", got)
 	}
 	s.Flange.A++
-	if got := modelKeys(m.Name+".toml", s).source("flange.a"); got != "model file or default" {
+	if got := modelKeys(m.Name+".toml", m.Data, s).source("flange.a"); got != "model file or default" {
 		t.Errorf("edited Spec: source %q", got)
 	}
 }
@@ -255,7 +241,7 @@ func TestReportPreloadFailed(t *testing.T) {
 	}
 	res := &analysis{failure: errors.New("preload: not converged"), ending: "the preload stage did not converge"}
 	dir := t.TempDir()
-	if err := writeRunReport(dir, "flat.toml", g, res, makeSummary("flat.toml", g, res)); err != nil {
+	if err := writeRunReport(dir, "flat.toml", demoModels()[0].Data, g, res, makeSummary("flat.toml", g, res)); err != nil {
 		t.Fatal(err)
 	}
 	page := string(readFile(t, filepath.Join(dir, "report.html")))

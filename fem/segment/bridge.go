@@ -1,8 +1,11 @@
-package main
+package segment
 
-import "flangeseg/fem/segment/modelfile"
+import (
+	"flangeseg/fem/segment/modelfile"
+	"flangeseg/post"
+)
 
-// The model file's names that the command's files use unqualified.
+// The model file's names that the moved files use unqualified (a bridge until they name the package).
 type (
 	Spec         = modelfile.Spec
 	Derived      = modelfile.Derived
@@ -21,3 +24,8 @@ const (
 
 // fnum formats a number as messages about the model write it.
 func fnum(x float64) string { return modelfile.FormatNumber(x) }
+
+const (
+	caution = post.Caution
+	version = post.Version
+)

@@ -1,4 +1,4 @@
-package main
+package segment
 
 import (
 	"crypto/sha256"
@@ -37,8 +37,8 @@ const (
 
 // writeRunReport writes dir/report.html, the calculation note of one run,
 // replaced atomically.
-func writeRunReport(dir, path string, g *segment, res *analysis, sum summary) error {
-	n := runNote{path: path, g: g, rows: res.rows, sum: sum}
+func writeRunReport(dir, path string, text []byte, g *segment, res *analysis, sum summary) error {
+	n := runNote{path: path, text: text, g: g, rows: res.rows, sum: sum}
 	r, err := n.report()
 	if err != nil {
 		return err
@@ -55,7 +55,7 @@ func writeRunReport(dir, path string, g *segment, res *analysis, sum summary) er
 // writeCompareReport writes dir/report.html, one note for the runs of a
 // comparison (names, jobs and sums in the same order, the first the
 // reference of every ratio), from their run directories.
-func writeCompareReport(dir string, names []string, jobs []modelJob, sums []summary) error {
+func writeCompareReport(dir string, names []string, jobs []ModelJob, sums []summary) error {
 	if len(names) != len(jobs) || len(sums) != len(jobs) {
 		return fmt.Errorf("report: comparison of %d names, %d models and %d summaries: want one of each per model", len(names), len(jobs), len(sums))
 	}
@@ -66,20 +66,20 @@ func writeCompareReport(dir string, names []string, jobs []modelJob, sums []summ
 	c := report.Compare{Caution: caution}
 	var titles, sha []string
 	for i, j := range jobs {
-		g, err := buildSegment(j.spec, j.spec.Derive())
+		g, err := buildSegment(j.Spec, j.Spec.Derive())
 		if err != nil {
-			return fmt.Errorf("report: %s: %w", j.path, err)
+			return fmt.Errorf("report: %s: %w", j.Path, err)
 		}
-		rows, err := historyRows(filepath.Join(j.dir, "history.csv"), g.zones)
+		rows, err := historyRows(filepath.Join(j.Dir, "history.csv"), g.zones)
 		if err != nil {
-			return fmt.Errorf("report: %s: %w", j.path, err)
+			return fmt.Errorf("report: %s: %w", j.Path, err)
 		}
-		n := runNote{path: j.path, g: g, rows: rows, sum: sums[i]}
+		n := runNote{path: j.Path, text: j.Text, g: g, rows: rows, sum: sums[i]}
 		r, err := n.report()
 		if err != nil {
 			return err
 		}
-		own := filepath.Join(j.dir, "report.html")
+		own := filepath.Join(j.Dir, "report.html")
 		if rel, err := filepath.Rel(dir, own); err == nil {
 			own = filepath.ToSlash(rel)
 		}
@@ -87,7 +87,7 @@ func writeCompareReport(dir string, names []string, jobs []modelJob, sums []summ
 		notes = append(notes, n)
 		c.Runs = append(c.Runs, r)
 		titles = append(titles, r.Title)
-		h, err := resolvedHash(j.spec)
+		h, err := resolvedHash(j.Spec)
 		if err != nil {
 			return err
 		}
@@ -110,6 +110,7 @@ func writeCompareReport(dir string, names []string, jobs []modelJob, sums []summ
 // runNote is what the note of one run is built from.
 type runNote struct {
 	path string // the model file as the user named it
+	text []byte // the model's text when it is not on disk at path, else nil
 	g    *segment
 	rows []historyRow
 	sum  summary
@@ -238,18 +239,17 @@ type keySources struct {
 }
 
 // modelKeys finds which keys the model file gives. The file at path (or
-// the embedded demo model of that name) counts only if it decodes to the
-// very Spec that ran, so a file changed since, or a Spec edited after
-// decoding, gives "model file or default" instead of a wrong answer.
-func modelKeys(path string, s *Spec) keySources {
+// text, the model's text when it is not on disk, as the embedded demo
+// models) counts only if it decodes to the very Spec that ran, so a file
+// changed since, or a Spec edited after decoding, gives "model file or
+// default" instead of a wrong answer.
+func modelKeys(path string, text []byte, s *Spec) keySources {
 	var candidates [][]byte
 	if data, err := os.ReadFile(path); err == nil {
 		candidates = append(candidates, data)
 	}
-	for _, m := range demoModels() {
-		if m.Name+".toml" == filepath.Base(path) {
-			candidates = append(candidates, m.Data)
-		}
+	if text != nil {
+		candidates = append(candidates, text)
 	}
 	for _, data := range candidates {
 		decoded, err := modelfile.Decode(data)
@@ -284,7 +284,7 @@ func (k keySources) source(path string) string {
 func (n *runNote) inputs() []report.Quantities {
 	s := n.g.spec
 	keys := inputKeys()
-	src := modelKeys(n.path, s)
+	src := modelKeys(n.path, n.text, s)
 	v := reflect.ValueOf(s).Elem()
 	var out []report.Quantities
 	for i := range v.NumField() {
@@ -949,7 +949,7 @@ func regionBox(m *mesh.Mesh, name string) *report.Box {
 // historyRows reads a run's history.csv back into rows (forces in N,
 // moments in N·mm), as far as the note needs them.
 func historyRows(path string, zones []zoneRange) ([]historyRow, error) {
-	cols, err := readHistoryColumns(path)
+	cols, err := ReadHistoryColumns(path)
 	if err != nil {
 		return nil, err
 	}

@@ -1,11 +1,13 @@
-package main
+package segment
 
 import (
+	"encoding/csv"
 	"fmt"
 	"io"
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 
 	"flangeseg/contact"
 	"flangeseg/post"
@@ -104,7 +106,7 @@ func makeSummary(path string, g *segment, res *analysis) summary {
 }
 
 // writeResults writes every output file of a run into dir.
-func writeResults(dir, modelPath string, g *segment, res *analysis) (summary, error) {
+func writeResults(dir, modelPath string, text []byte, g *segment, res *analysis) (summary, error) {
 	sum := makeSummary(modelPath, g, res)
 	if err := os.MkdirAll(filepath.Join(dir, "fields"), 0o755); err != nil {
 		return sum, err
@@ -129,7 +131,7 @@ func writeResults(dir, modelPath string, g *segment, res *analysis) (summary, er
 	if err := post.WriteJSON(filepath.Join(dir, "summary.json"), sum); err != nil {
 		return sum, err
 	}
-	if err := writeRunReport(dir, modelPath, g, res, sum); err != nil {
+	if err := writeRunReport(dir, modelPath, text, g, res, sum); err != nil {
 		return sum, err
 	}
 	if err := writePlots(dir, g, res); err != nil {
@@ -247,4 +249,37 @@ func contactFields(nodes int, pairs map[string][]contact.NodeResult) []post.Fiel
 		}
 	}
 	return []post.Field{{Name: "contact_pressure", Components: 1, Values: pressure}, {Name: "gap", Components: 1, Values: gap}}
+}
+
+// ReadHistoryColumns reads the numeric columns of a run's history.csv.
+func ReadHistoryColumns(path string) (map[string][]float64, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	records, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	if len(records) < 2 {
+		return nil, fmt.Errorf("%s: no rows", path)
+	}
+	cols := map[string][]float64{}
+	for _, r := range records[1:] {
+		for c, name := range records[0] {
+			if c >= len(r) {
+				continue
+			}
+			if v, err := strconv.ParseFloat(r[c], 64); err == nil {
+				cols[name] = append(cols[name], v)
+			}
+		}
+	}
+	for _, need := range []string{"Z_kN", "u_mm", "bolt_force_kN"} {
+		if len(cols[need]) != len(records)-1 {
+			return nil, fmt.Errorf("%s: column %s missing or incomplete", path, need)
+		}
+	}
+	return cols, nil
 }

@@ -1,5 +1,9 @@
 package post
 
+// Version is the release of flangeseg that the files it writes name;
+// builds from a checkout add the revision in `flangeseg version`.
+const Version = "0.1.0-dev"
+
 // Caution goes into every summary file and calculation note that flangeseg
 // writes, and into its help: results can make an unsafe joint look safe if
 // they are used unchecked.
