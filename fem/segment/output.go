@@ -10,6 +10,7 @@ import (
 	"strconv"
 
 	"flangeseg/contact"
+	"flangeseg/fem/segment/figures"
 	"flangeseg/post"
 	"flangeseg/post/handcalc"
 )
@@ -29,15 +30,15 @@ func historyTable(g *segment, res *analysis) (post.Table, error) {
 	w := math.Pi * ds * ds * ds / 32
 	for _, r := range res.rows {
 		stage := 1.0
-		if r.stage == "preload" {
+		if r.Stage == "preload" {
 			stage = 0
 		}
-		row := []float64{float64(r.increment), stage, r.z / 1e3, r.u, r.fs / 1e3, r.mInterface / 1e6,
-			r.mHead / 1e6, r.fs / g.der.StressArea, math.Abs(r.mInterface) / w, r.gapEdge}
-		for _, f := range r.zoneForce {
+		row := []float64{float64(r.Increment), stage, r.Z / 1e3, r.U, r.Fs / 1e3, r.MomentInterface / 1e6,
+			r.MomentHead / 1e6, r.Fs / g.der.StressArea, math.Abs(r.MomentInterface) / w, r.GapEdge}
+		for _, f := range r.ZoneForce {
 			row = append(row, f/1e3)
 		}
-		row = append(row, r.maxPlastic, r.maxDamage, float64(r.iterations))
+		row = append(row, r.MaxPlastic, r.MaxDamage, float64(r.Iterations))
 		if err := t.Append(row...); err != nil {
 			return t, err
 		}
@@ -53,7 +54,7 @@ type summary struct {
 	Converged bool              `json:"converged"`
 	Ending    string            `json:"ending"`
 	Failure   string            `json:"failure,omitempty"`
-	Joint     jointFigures      `json:"joint"`
+	Joint     figures.Joint     `json:"joint"`
 	Mesh      meshSummary       `json:"mesh"`
 	Solver    solverSummary     `json:"solver"`
 	Hand      handcalc.Results  `json:"hand_methods"`
@@ -88,7 +89,7 @@ func makeSummary(path string, g *segment, res *analysis) summary {
 	q := g.mesh.Quality()
 	s := summary{
 		Title: g.spec.Title, Model: filepath.Base(path), Caution: caution,
-		Converged: res.failure == nil, Ending: res.ending, Joint: figures(g, res), Hand: g.hand,
+		Converged: res.failure == nil, Ending: res.ending, Joint: jointFigures(g, res), Hand: g.hand,
 		Verdict: handcalc.CheckDesignForce(g.hand, g.spec.Load.DesignForce, handcalc.DefaultBorderline),
 		Mesh: meshSummary{Nodes: len(g.mesh.Nodes), Elements: len(g.mesh.Elements), Equations: res.equation,
 			Element: g.spec.Mesh.Element, MinJacobianRatio: q.MinJacobianRatio, MaxAspectRatio: q.MaxAspectRatio},
@@ -140,7 +141,7 @@ func writeResults(dir, modelPath string, text []byte, g *segment, res *analysis)
 	return sum, writeFields(dir, res)
 }
 
-func column(rows []historyRow, q func(historyRow) float64) []float64 {
+func column(rows []figures.Row, q func(figures.Row) float64) []float64 {
 	out := make([]float64, len(rows))
 	for i, r := range rows {
 		out[i] = q(r)
@@ -152,7 +153,7 @@ func column(rows []historyRow, q func(historyRow) float64) []float64 {
 var curveFiles = []string{"Z_u", "Fs_Z", "Ms_Z", "gap_Z", "contact_force_Z"}
 
 func writePlots(dir string, g *segment, res *analysis) error {
-	curves := noteCurves(g, res.rows, figures(g, res))
+	curves := noteCurves(g, res.rows, jointFigures(g, res))
 	if curves == nil {
 		return nil
 	}
@@ -165,15 +166,15 @@ func writePlots(dir string, g *segment, res *analysis) error {
 }
 
 // peakMarker marks the largest segment force of the run.
-func peakMarker(rows []historyRow) []post.Marker {
+func peakMarker(rows []figures.Row) []post.Marker {
 	best := 0
 	for i, r := range rows {
-		if r.z > rows[best].z {
+		if r.Z > rows[best].Z {
 			best = i
 		}
 	}
 	r := rows[best]
-	return []post.Marker{{Name: fmt.Sprintf("peak %.0f kN", r.z/1e3), X: r.u, Y: r.z / 1e3}}
+	return []post.Marker{{Name: fmt.Sprintf("peak %.0f kN", r.Z/1e3), X: r.U, Y: r.Z / 1e3}}
 }
 
 // pressurePlot draws the face pressure at preload and at three load
@@ -196,7 +197,7 @@ func pressurePlot(res *analysis) post.Plot {
 				x, pr = append(x, r.X), append(pr, r.Pressure)
 			}
 		}
-		p.Series = append(p.Series, post.Series{Name: fmt.Sprintf("%s, Z = %.0f kN", st.label, st.row.z/1e3), X: x, Y: pr})
+		p.Series = append(p.Series, post.Series{Name: fmt.Sprintf("%s, Z = %.0f kN", st.label, st.row.Z/1e3), X: x, Y: pr})
 	}
 	return p
 }
@@ -216,7 +217,7 @@ func writeFields(dir string, res *analysis) error {
 		if err := post.WriteVTU(filepath.Join(dir, "fields", name), post.GridFromMesh(mesh), point, cell); err != nil {
 			return err
 		}
-		series = append(series, post.SeriesEntry{Time: float64(st.row.increment), File: filepath.Join("fields", name)})
+		series = append(series, post.SeriesEntry{Time: float64(st.row.Increment), File: filepath.Join("fields", name)})
 	}
 	return post.WritePVD(filepath.Join(dir, "fields.pvd"), series)
 }

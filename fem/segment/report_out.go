@@ -13,6 +13,7 @@ import (
 
 	"github.com/BurntSushi/toml"
 
+	"flangeseg/fem/segment/figures"
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/mesh"
 	"flangeseg/post"
@@ -112,7 +113,7 @@ type runNote struct {
 	path string // the model file as the user named it
 	text []byte // the model's text when it is not on disk at path, else nil
 	g    *segment
-	rows []historyRow
+	rows []figures.Row
 	sum  summary
 }
 
@@ -597,7 +598,7 @@ func (n *runNote) handVersusFE() report.Table {
 			fe[2], fe[3] = report.Text("no tension stage"), report.Text("no tension stage")
 		}
 	}
-	if assessed && n.rows[len(n.rows)-1].z/1e3 >= j.PeakLoadKN {
+	if assessed && n.rows[len(n.rows)-1].Z/1e3 >= j.PeakLoadKN {
 		fe[5] = report.Text("largest Z of the tension stage, still rising at its end: a lower bound of the ultimate load")
 	}
 	t.Rows = append(t.Rows, fe)
@@ -653,8 +654,8 @@ func (n *runNote) convergence() report.Quantities {
 	if s.Increments > 0 {
 		var tension int
 		for _, r := range n.rows {
-			if r.stage != "preload" {
-				tension += r.iterations
+			if r.Stage != "preload" {
+				tension += r.Iterations
 			}
 		}
 		rows = append(rows, report.Quantity{Name: "mean Newton iterations per tension increment", Value: num(float64(tension)/float64(s.Increments), one), Source: srcFE})
@@ -699,27 +700,27 @@ func (n *runNote) notes() []string {
 // noteCurves are the load–response curves (the files of curveFiles and
 // the report's figures), with the peak marked on Z–u and the opening load
 // on the bolt-force function.
-func noteCurves(g *segment, rows []historyRow, j jointFigures) []post.Plot {
+func noteCurves(g *segment, rows []figures.Row, j figures.Joint) []post.Plot {
 	if len(rows) < 2 {
 		return nil
 	}
-	z := column(rows, func(r historyRow) float64 { return r.z / 1e3 })
-	u := column(rows, func(r historyRow) float64 { return r.u })
-	fs := column(rows, func(r historyRow) float64 { return r.fs / 1e3 })
-	zh, diagram, tri := handCurves(g.hand, math.Max(rows[len(rows)-1].z, 0))
+	z := column(rows, func(r figures.Row) float64 { return r.Z / 1e3 })
+	u := column(rows, func(r figures.Row) float64 { return r.U })
+	fs := column(rows, func(r figures.Row) float64 { return r.Fs / 1e3 })
+	zh, diagram, tri := handCurves(g.hand, math.Max(rows[len(rows)-1].Z, 0))
 	bolt := post.Plot{Title: "Bolt force function, FE and hand bolt-force models", XLabel: "Z [kN]", YLabel: "F_s [kN]",
 		Series: []post.Series{{Name: "FE", X: z, Y: fs},
 			{Name: "joint diagram (VDI 2230)", X: zh, Y: diagram, Dashed: true},
 			{Name: "trilinear (Schmidt/Neuhaus)", X: zh, Y: tri, Dashed: true}}}
 	if o := j.OpeningLoadKN; o != nil && *o > 0 {
-		if f, ok := at(rows, *o*1e3, func(r historyRow) float64 { return r.fs / 1e3 }); ok {
+		if f, ok := figures.At(rows, *o*1e3, func(r figures.Row) float64 { return r.Fs / 1e3 }); ok {
 			bolt.Markers = append(bolt.Markers, post.Marker{Name: "opening", X: *o, Y: f})
 		}
 	}
 	zones := post.Plot{Title: "Contact force per zone", XLabel: "Z [kN]", YLabel: "contact force [kN]"}
 	for i, zr := range g.zones {
 		zones.Series = append(zones.Series, post.Series{Name: zr.name,
-			X: z, Y: column(rows, func(r historyRow) float64 { return r.zoneForce[i] / 1e3 })})
+			X: z, Y: column(rows, func(r figures.Row) float64 { return r.ZoneForce[i] / 1e3 })})
 	}
 	return []post.Plot{
 		{Title: "Segment force against loaded-edge displacement", XLabel: "u [mm]", YLabel: "Z [kN]",
@@ -727,10 +728,10 @@ func noteCurves(g *segment, rows []historyRow, j jointFigures) []post.Plot {
 		bolt,
 		{Title: "Bolt bending moment", XLabel: "Z [kN]", YLabel: "M_s [kN·m]",
 			Series: []post.Series{
-				{Name: "at the contact plane", X: z, Y: column(rows, func(r historyRow) float64 { return r.mInterface / 1e6 })},
-				{Name: "under the head", X: z, Y: column(rows, func(r historyRow) float64 { return r.mHead / 1e6 }), Dashed: true}}},
+				{Name: "at the contact plane", X: z, Y: column(rows, func(r figures.Row) float64 { return r.MomentInterface / 1e6 })},
+				{Name: "under the head", X: z, Y: column(rows, func(r figures.Row) float64 { return r.MomentHead / 1e6 }), Dashed: true}}},
 		{Title: "Opening at the shell-side corner", XLabel: "Z [kN]", YLabel: "gap [mm]",
-			Series: []post.Series{{Name: "x = b + t/2", X: z, Y: column(rows, func(r historyRow) float64 { return r.gapEdge })}}},
+			Series: []post.Series{{Name: "x = b + t/2", X: z, Y: column(rows, func(r figures.Row) float64 { return r.GapEdge })}}},
 		zones,
 	}
 }
@@ -798,7 +799,7 @@ func noteFields(g *segment, res *analysis) ([]report.Field, error) {
 	s := g.spec
 	top := s.Flange.Thickness + s.Bolt.WasherThickness + math.Max(s.Bolt.HeadHeight, s.Bolt.NutHeight) + 20
 	view := &report.Box{XMin: -s.Flange.A - 10, XMax: s.Flange.B + s.Shell.Thickness/2 + 10, ZMin: -top, ZMax: top}
-	at := fmt.Sprintf("at the last converged state (%s, Z = %.4g kN), undeformed shape", st.label, st.row.z/1e3)
+	at := fmt.Sprintf("at the last converged state (%s, Z = %.4g kN), undeformed shape", st.label, st.row.Z/1e3)
 	out := []report.Field{
 		{Caption: "von Mises stress " + at + ": flanges and shell near the joint.", Name: "von Mises stress", Unit: "MPa",
 			Nodes: nodes, Cells: body, Values: vm, View: view},
@@ -948,7 +949,7 @@ func regionBox(m *mesh.Mesh, name string) *report.Box {
 
 // historyRows reads a run's history.csv back into rows (forces in N,
 // moments in N·mm), as far as the note needs them.
-func historyRows(path string, zones []zoneRange) ([]historyRow, error) {
+func historyRows(path string, zones []zoneRange) ([]figures.Row, error) {
 	cols, err := ReadHistoryColumns(path)
 	if err != nil {
 		return nil, err
@@ -963,18 +964,18 @@ func historyRows(path string, zones []zoneRange) ([]historyRow, error) {
 			return nil, fmt.Errorf("%s: column %s missing or incomplete", path, c)
 		}
 	}
-	rows := make([]historyRow, n)
+	rows := make([]figures.Row, n)
 	for i := range rows {
 		r := &rows[i]
-		r.increment, r.stage = int(cols["increment"][i]), "tension"
+		r.Increment, r.Stage = int(cols["increment"][i]), "tension"
 		if cols["stage"][i] == 0 {
-			r.stage = "preload"
+			r.Stage = "preload"
 		}
-		r.z, r.u, r.fs = cols["Z_kN"][i]*1e3, cols["u_mm"][i], cols["bolt_force_kN"][i]*1e3
-		r.mInterface, r.mHead = cols["bolt_moment_interface_kNm"][i]*1e6, cols["bolt_moment_head_kNm"][i]*1e6
-		r.gapEdge, r.iterations = cols["gap_edge_mm"][i], int(cols["iterations"][i])
+		r.Z, r.U, r.Fs = cols["Z_kN"][i]*1e3, cols["u_mm"][i], cols["bolt_force_kN"][i]*1e3
+		r.MomentInterface, r.MomentHead = cols["bolt_moment_interface_kNm"][i]*1e6, cols["bolt_moment_head_kNm"][i]*1e6
+		r.GapEdge, r.Iterations = cols["gap_edge_mm"][i], int(cols["iterations"][i])
 		for _, z := range zones {
-			r.zoneForce = append(r.zoneForce, cols["contact_force_"+z.name+"_kN"][i]*1e3)
+			r.ZoneForce = append(r.ZoneForce, cols["contact_force_"+z.name+"_kN"][i]*1e3)
 		}
 	}
 	return rows, nil
@@ -989,10 +990,10 @@ type comparedFigure struct {
 }
 
 func comparedFigures() []comparedFigure {
-	val := func(f func(j jointFigures) float64) func(s summary) (float64, bool) {
+	val := func(f func(j figures.Joint) float64) func(s summary) (float64, bool) {
 		return func(s summary) (float64, bool) { return f(s.Joint), true }
 	}
-	opt := func(f func(j jointFigures) *float64) func(s summary) (float64, bool) {
+	opt := func(f func(j figures.Joint) *float64) func(s summary) (float64, bool) {
 		return func(s summary) (float64, bool) {
 			if p := f(s.Joint); p != nil {
 				return *p, true
@@ -1002,15 +1003,15 @@ func comparedFigures() []comparedFigure {
 	}
 	one := report.Dimensionless
 	return []comparedFigure{
-		{"stiffness, tangent at Z = 0", "stiffness_tangent_at_zero_kN_per_mm", "kN/mm", val(func(j jointFigures) float64 { return j.StiffnessTangentZero })},
-		{"stiffness, secant to the reference load", "stiffness_secant_to_reference_kN_per_mm", "kN/mm", opt(func(j jointFigures) *float64 { return j.StiffnessToReference })},
-		{"joint alone, secant to the reference load", "joint_stiffness_secant_to_reference_kN_per_mm", "kN/mm", opt(func(j jointFigures) *float64 { return j.JointStiffnessReference })},
-		{"load factor at Z = 0", "load_factor_tangent_at_zero", one, val(func(j jointFigures) float64 { return j.LoadFactorTangentZero })},
-		{"load factor, secant to the reference load", "load_factor_secant_to_reference", one, opt(func(j jointFigures) *float64 { return j.LoadFactorToReference })},
-		{"opening load", "opening_load_kN", "kN", opt(func(j jointFigures) *float64 { return j.OpeningLoadKN })},
-		{"decompression load", "decompression_load_kN", "kN", opt(func(j jointFigures) *float64 { return j.DecompressionKN })},
-		{"largest segment force", "peak_load_kN", "kN", val(func(j jointFigures) float64 { return j.PeakLoadKN })},
-		{"displacement at the end", "displacement_at_end_mm", "mm", val(func(j jointFigures) float64 { return j.DisplacementEndMM })},
+		{"stiffness, tangent at Z = 0", "stiffness_tangent_at_zero_kN_per_mm", "kN/mm", val(func(j figures.Joint) float64 { return j.StiffnessTangentZero })},
+		{"stiffness, secant to the reference load", "stiffness_secant_to_reference_kN_per_mm", "kN/mm", opt(func(j figures.Joint) *float64 { return j.StiffnessToReference })},
+		{"joint alone, secant to the reference load", "joint_stiffness_secant_to_reference_kN_per_mm", "kN/mm", opt(func(j figures.Joint) *float64 { return j.JointStiffnessReference })},
+		{"load factor at Z = 0", "load_factor_tangent_at_zero", one, val(func(j figures.Joint) float64 { return j.LoadFactorTangentZero })},
+		{"load factor, secant to the reference load", "load_factor_secant_to_reference", one, opt(func(j figures.Joint) *float64 { return j.LoadFactorToReference })},
+		{"opening load", "opening_load_kN", "kN", opt(func(j figures.Joint) *float64 { return j.OpeningLoadKN })},
+		{"decompression load", "decompression_load_kN", "kN", opt(func(j figures.Joint) *float64 { return j.DecompressionKN })},
+		{"largest segment force", "peak_load_kN", "kN", val(func(j figures.Joint) float64 { return j.PeakLoadKN })},
+		{"displacement at the end", "displacement_at_end_mm", "mm", val(func(j figures.Joint) float64 { return j.DisplacementEndMM })},
 	}
 }
 
@@ -1080,14 +1081,14 @@ func compareOverlays(names []string, notes []runNote) []post.Plot {
 		if len(n.rows) == 0 {
 			continue
 		}
-		z := column(n.rows, func(r historyRow) float64 { return r.z / 1e3 })
+		z := column(n.rows, func(r figures.Row) float64 { return r.Z / 1e3 })
 		ys := [][]float64{
-			column(n.rows, func(r historyRow) float64 { return r.fs / 1e3 }),
+			column(n.rows, func(r figures.Row) float64 { return r.Fs / 1e3 }),
 			z,
-			column(n.rows, func(r historyRow) float64 { return r.mInterface / 1e6 }),
-			column(n.rows, func(r historyRow) float64 { return r.gapEdge }),
+			column(n.rows, func(r figures.Row) float64 { return r.MomentInterface / 1e6 }),
+			column(n.rows, func(r figures.Row) float64 { return r.GapEdge }),
 		}
-		u := column(n.rows, func(r historyRow) float64 { return r.u })
+		u := column(n.rows, func(r figures.Row) float64 { return r.U })
 		for k := range plots {
 			x := z
 			if k == 1 {

@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"flangeseg/fem/segment/figures"
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post/handcalc"
 )
@@ -58,8 +59,8 @@ func TestRunEquilibrium(t *testing.T) {
 		t.Fatalf("%d rows, want preload + 6 increments", len(res.rows))
 	}
 	for _, r := range res.rows[1:] {
-		if e := math.Abs(r.z+r.zFixed) / math.Abs(r.z); e > 1e-6 {
-			t.Errorf("increment %d: Z = %.6g N, fixed-end reaction %.6g N (error %.2g)", r.increment, r.z, r.zFixed, e)
+		if e := math.Abs(r.Z+r.ZFixed) / math.Abs(r.Z); e > 1e-6 {
+			t.Errorf("increment %d: Z = %.6g N, fixed-end reaction %.6g N (error %.2g)", r.Increment, r.Z, r.ZFixed, e)
 		}
 	}
 }
@@ -80,7 +81,7 @@ func TestPreloadWays(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			g, res := coarseDemo(t, func(s *Spec) { c.edit(s); s.Load.Increments = 1; s.Load.MaxDisplacement = 0.05 })
-			got := res.rows[0].fs
+			got := res.rows[0].Fs
 			switch {
 			case g.der.PreloadForce > 0:
 				if e := math.Abs(got-g.der.PreloadForce) / g.der.PreloadForce; e > 0.005 {
@@ -113,29 +114,29 @@ func TestPreloadWays(t *testing.T) {
 func TestJointBehaviour(t *testing.T) {
 	g, res := coarseDemo(t, func(s *Spec) { s.Load.Increments, s.Load.MaxDisplacement = 16, 1.6 })
 	rows := res.rows
-	f := figures(g, res)
+	f := jointFigures(g, res)
 	if f.OpeningLoadKN == nil || f.DecompressionKN == nil {
-		t.Fatalf("opening %v, decompression %v: the face should open and decompress by Z = %.0f kN", f.OpeningLoadKN, f.DecompressionKN, rows[len(rows)-1].z/1e3)
+		t.Fatalf("opening %v, decompression %v: the face should open and decompress by Z = %.0f kN", f.OpeningLoadKN, f.DecompressionKN, rows[len(rows)-1].Z/1e3)
 	}
 	lever := (g.spec.Flange.A + g.spec.Flange.B) / g.spec.Flange.A
 	prev := 0.0
 	for i := 1; i < len(rows); i++ {
 		a, b := rows[i-1], rows[i]
-		slope := (b.fs - a.fs) / (b.z - a.z)
-		if b.z/1e3 <= *f.OpeningLoadKN && (slope <= 0 || slope >= 0.2) {
-			t.Errorf("Z = %.0f kN, before opening: dF_s/dZ = %.3f, want a small share (0, 0.2)", b.z/1e3, slope)
+		slope := (b.Fs - a.Fs) / (b.Z - a.Z)
+		if b.Z/1e3 <= *f.OpeningLoadKN && (slope <= 0 || slope >= 0.2) {
+			t.Errorf("Z = %.0f kN, before opening: dF_s/dZ = %.3f, want a small share (0, 0.2)", b.Z/1e3, slope)
 		}
-		if a.z/1e3 >= *f.OpeningLoadKN && slope < prev-1e-3 {
-			t.Errorf("Z = %.0f kN, after opening: dF_s/dZ fell from %.3f to %.3f", b.z/1e3, prev, slope)
+		if a.Z/1e3 >= *f.OpeningLoadKN && slope < prev-1e-3 {
+			t.Errorf("Z = %.0f kN, after opening: dF_s/dZ fell from %.3f to %.3f", b.Z/1e3, prev, slope)
 		}
 		if slope >= 1.02*lever {
-			t.Errorf("Z = %.0f kN: dF_s/dZ = %.3f above 1.02·(a + b)/a = %.3f", b.z/1e3, slope, 1.02*lever)
+			t.Errorf("Z = %.0f kN: dF_s/dZ = %.3f above 1.02·(a + b)/a = %.3f", b.Z/1e3, slope, 1.02*lever)
 		}
-		t.Logf("Z = %6.1f kN  F_s = %7.1f kN  dF_s/dZ = %.3f  gap at the corner %.4f mm", b.z/1e3, b.fs/1e3, slope, b.gapEdge)
+		t.Logf("Z = %6.1f kN  F_s = %7.1f kN  dF_s/dZ = %.3f  gap at the corner %.4f mm", b.Z/1e3, b.Fs/1e3, slope, b.GapEdge)
 		prev = slope
 	}
 	if prev <= 1 {
-		t.Errorf("dF_s/dZ = %.3f at Z = %.0f kN, past decompression at %.0f kN: it should exceed 1", prev, rows[len(rows)-1].z/1e3, *f.DecompressionKN)
+		t.Errorf("dF_s/dZ = %.3f at Z = %.0f kN, past decompression at %.0f kN: it should exceed 1", prev, rows[len(rows)-1].Z/1e3, *f.DecompressionKN)
 	}
 	last := res.states[len(res.states)-1]
 	edge := 0.0
@@ -147,8 +148,8 @@ func TestJointBehaviour(t *testing.T) {
 	if edge <= 0 {
 		t.Error("the free edge lost contact: it should carry the prying force")
 	}
-	if last.row.gapEdge <= openGap {
-		t.Errorf("gap at the shell-side corner %.4f mm at the end: the face should be open there", last.row.gapEdge)
+	if last.row.GapEdge <= figures.OpenGap {
+		t.Errorf("gap at the shell-side corner %.4f mm at the end: the face should be open there", last.row.GapEdge)
 	}
 }
 
@@ -171,11 +172,11 @@ func TestMeshConvergence(t *testing.T) {
 		spec.Mesh.Size = size
 		spec.Load.Increments, spec.Load.MaxDisplacement = 8, 0.8
 		_, res := analyseSpec(t, spec)
-		fs, ok := at(res.rows, z, func(r historyRow) float64 { return r.fs })
+		fs, ok := figures.At(res.rows, z, func(r figures.Row) float64 { return r.Fs })
 		if !ok {
 			t.Fatalf("mesh %g mm: Z = %.0f kN not reached", size, z/1e3)
 		}
-		total[size], increase[size] = fs, fs-res.rows[0].fs
+		total[size], increase[size] = fs, fs-res.rows[0].Fs
 		t.Logf("mesh %g mm: %d equations, F_s(%.0f kN) = %.2f kN, increase %.2f kN", size, res.equation, z/1e3, fs/1e3, increase[size]/1e3)
 	}
 	if e := math.Abs(total[5]-total[8]) / total[5]; e > 0.02 {
@@ -203,8 +204,8 @@ func TestDefinedContactBands(t *testing.T) {
 	edit := func(s *Spec) { s.Load.Increments, s.Load.MaxDisplacement = 12, 1.2 }
 	gf, rf := coarseModel(t, 0, edit)
 	gb, rb := coarseModel(t, 1, edit)
-	flat, bands := figures(gf, rf), figures(gb, rb)
-	for _, f := range []jointFigures{flat, bands} {
+	flat, bands := jointFigures(gf, rf), jointFigures(gb, rb)
+	for _, f := range []figures.Joint{flat, bands} {
 		if f.JointStiffnessReference == nil || f.StiffnessToReference == nil || f.LoadFactorToReference == nil {
 			t.Fatalf("reference load %.0f kN not reached", f.ReferenceLoadKN)
 		}
@@ -283,7 +284,7 @@ func TestHingeLimitLoad(t *testing.T) {
 	if e := math.Abs(u.Petersen.C/1e3-zc) / zc; e > 1e-9 {
 		t.Fatalf("handcalc mode C %.3f kN, the arithmetic here %.3f kN", u.Petersen.C/1e3, zc)
 	}
-	f := figures(g, res)
+	f := jointFigures(g, res)
 	if res.failure != nil {
 		t.Fatalf("analysis stopped at u = %.2f mm: %v", f.DisplacementEndMM, res.failure)
 	}
@@ -291,7 +292,7 @@ func TestHingeLimitLoad(t *testing.T) {
 	if e := math.Abs(f.PeakLoadKN-zc) / zc; e > 0.15 {
 		t.Errorf("FE peak %.1f kN is %.1f %% off Petersen's mode C %.1f kN (limit 15 %%)", f.PeakLoadKN, 100*e, zc)
 	}
-	if !strings.HasPrefix(f.FailureLocation, siteFlangeBolt) {
+	if !strings.HasPrefix(f.FailureLocation, figures.SiteFlangeBolt) {
 		t.Errorf("mechanism %q: want the flange hinge of mode C, across the hole at the bolt line, to lead", f.FailureLocation)
 	}
 }
@@ -323,7 +324,7 @@ func TestThreadTrend(t *testing.T) {
 			t.Fatal(err)
 		}
 		g, res := analyseSpec(t, spec)
-		f := figures(g, res)
+		f := jointFigures(g, res)
 		t.Logf("%s thread: peak %.1f kN at %.2f mm, end %.2f mm (%s); %s", thread, f.PeakLoadKN, f.DisplacementPeakMM, f.DisplacementEndMM, res.ending, f.FailureLocation)
 		return outcome{f.PeakLoadKN, f.DisplacementEndMM}
 	}
@@ -351,7 +352,7 @@ func TestModeA(t *testing.T) {
 	}
 	d := spec.Derive()
 	g, res := analyseSpec(t, spec)
-	f := figures(g, res)
+	f := jointFigures(g, res)
 	capacity := d.StressArea * d.Fub / 1e3
 	t.Logf("FE peak %.1f kN at %.2f mm, A_s·f_ub = %.1f kN (ratio %.3f); %s; %s", f.PeakLoadKN, f.DisplacementPeakMM, capacity, f.PeakLoadKN/capacity, res.ending, f.FailureLocation)
 	if e := math.Abs(f.PeakLoadKN-capacity) / capacity; e > 0.10 {
