@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
@@ -105,7 +106,7 @@ func runModel(job segment.ModelJob, flags runFlags, stdout, stderr io.Writer) in
 		}
 	}
 	start := time.Now()
-	res, err := seg.Analyse(opt)
+	res, err := seg.Run(context.Background(), opt)
 	if err != nil {
 		fmt.Fprintf(stderr, "%s: analysis: %v\n", path, err)
 		return exitAnalysis
@@ -116,8 +117,8 @@ func runModel(job segment.ModelJob, flags runFlags, stdout, stderr io.Writer) in
 		return exitAnalysis
 	}
 	printSummary(stdout, sum, dir, time.Since(start))
-	if res.Failure() != nil {
-		fmt.Fprintf(stderr, "%s: the analysis stopped: %v\nresults up to the last converged increment are in %s\n", path, res.Failure(), dir)
+	if res.Failure != nil {
+		fmt.Fprintf(stderr, "%s: the analysis stopped: %v\nresults up to the last converged increment are in %s\n", path, res.Failure, dir)
 		return exitAnalysis
 	}
 	return exitOK

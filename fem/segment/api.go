@@ -1,7 +1,11 @@
 package segment
 
 import (
+	"context"
+
+	"flangeseg/contact"
 	"flangeseg/fem"
+	"flangeseg/fem/segment/figures"
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/fem/sparse"
 	"flangeseg/mesh"
@@ -32,8 +36,31 @@ func (g *segment) Model() *fem.Model { return g.model }
 // Hand are the hand methods' results for the joint.
 func (g *segment) Hand() handcalc.Results { return g.hand }
 
+// Zones are the contact zones of the flange face whose contact force the
+// history records (Row.ZoneForce, in this order): the model's
+// contact.zones, or the whole face as one zone.
+func (g *segment) Zones() []Zone {
+	out := make([]Zone, len(g.zones))
+	for i, z := range g.zones {
+		out[i] = Zone{Name: z.name, From: z.x0, To: z.x1}
+	}
+	return out
+}
+
+// Zone is a band of the flange face, x ∈ [From, To] in mm.
+type Zone struct {
+	Name     string // "face", or "zone1", "zone2" … for contact.zones
+	From, To float64
+}
+
+// Penalty is the contact penalty stiffness, MPa/mm.
+func (g *segment) Penalty() float64 { return g.penalty }
+
+// SliceLength is the length of the bolt slice the preload shortens, mm.
+func (g *segment) SliceLength() float64 { return g.slice }
+
 // Options are the choices of a run that do not come from the model file.
-// Every callback may be nil.
+// Every callback may be nil; they are called from the goroutine that runs.
 type Options struct {
 	// Progress receives the increments of the tension stage done and
 	// planned, after each converged increment.
@@ -51,22 +78,67 @@ type Options struct {
 // Result is what a run produced, up to its last converged increment.
 type Result struct {
 	Segment *Segment
-	a       *analysis
+	// History has one row per converged state: the preload, then each
+	// increment of the tension stage.
+	History []figures.Row
+	// States are the converged states kept for field output.
+	States []State
+	// Figures are the joint figures and the failure mechanism read off
+	// the history (Figures.FailureLocation names the mechanism).
+	Figures figures.Joint
+	Preload fem.PreloadResult
+	// Ending says why the tension stage ended; Failure is non-nil when
+	// the run stopped before its end (a stage did not converge).
+	Ending    string
+	Failure   error
+	Timing    fem.Timing
+	Equations int
+
+	a *analysis // for the writers in this package
 }
 
-// Analyse runs the preload and tension stages. A failure to converge ends
-// the run but keeps every converged increment (Result.Failure); setup
-// errors are returned.
-func (g *segment) Analyse(opt Options) (*Result, error) {
-	a, err := g.analyse(analyseOptions{inspect: opt.Inspect, log: opt.Log, progress: opt.Progress, keep: opt.Keep})
+// State is a converged state kept for field output.
+type State struct {
+	Label    string // "preload", "increment 7" …
+	Row      figures.Row
+	Solution *fem.Solution
+	// Contacts are the node results of the contact pairs "faces",
+	// "head" and "nut".
+	Contacts map[string][]contact.NodeResult
+	// Plastic and Damage are the equivalent plastic strain and damage
+	// indicator per element and integration point; nil with elastic laws,
+	// and nil for an element whose law keeps none.
+	Plastic, Damage [][]float64
+}
+
+// Run builds the segment of a valid model and analyses it: the preload,
+// then the tension stage to its end. A stage that does not converge ends
+// the run with the increments that did (Result.Failure); a model that
+// cannot be built, or ctx ending (checked before the preload and after
+// each increment), is returned as the error.
+func Run(ctx context.Context, spec *modelfile.Spec, opt Options) (*Result, error) {
+	g, err := Build(spec)
 	if err != nil {
 		return nil, err
 	}
-	return &Result{Segment: g, a: a}, nil
+	return g.Run(ctx, opt)
 }
 
-// Failure is why the run stopped before its end, or nil.
-func (r *Result) Failure() error { return r.a.failure }
+// Run analyses the segment, as Run does. A Segment runs once.
+func (g *segment) Run(ctx context.Context, opt Options) (*Result, error) {
+	a, err := g.analyse(analyseOptions{inspect: opt.Inspect, log: opt.Log, progress: opt.Progress, keep: opt.Keep,
+		stop: ctx.Err})
+	if err != nil {
+		return nil, err
+	}
+	r := &Result{Segment: g, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure,
+		Timing: a.timing, Equations: a.equation, Figures: jointFigures(g, a), a: a}
+	for _, st := range a.states {
+		r.States = append(r.States, State{Label: st.label, Row: st.row, Solution: st.solution, Contacts: st.contacts,
+			Plastic: st.history.plastic, Damage: st.history.damage})
+	}
+	return r, nil
+}
 
 // Summary is summary.json.
 type Summary = summary

@@ -36,6 +36,15 @@ type analyseOptions struct {
 	log      func(string)                                // per-iteration log (--verbose), or nil
 	progress func(done, all int)                         // after each increment, or nil
 	keep     func(inc int) bool                          // which increments to keep fields of
+	stop     func() error                                // before the preload and after each increment: non-nil ends the run with it
+}
+
+// halt is the stop callback's verdict (nil without one).
+func (o analyseOptions) halt() error {
+	if o.stop == nil {
+		return nil
+	}
+	return o.stop()
 }
 
 // analyse runs the preload and tension stages. A failure to converge ends
@@ -48,6 +57,9 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		return nil, err
 	}
 	res := &analysis{equation: g.model.Equations()}
+	if err := opt.halt(); err != nil {
+		return nil, err
+	}
 	v0, err := g.preload(s, res)
 	if err != nil {
 		if fem.IsNotConverged(err) {
@@ -81,6 +93,9 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		res.rows = append(res.rows, row)
 		if opt.progress != nil {
 			opt.progress(int(math.Round(inc.Fraction*float64(ld.Increments))), ld.Increments)
+		}
+		if err := opt.halt(); err != nil {
+			return true, err
 		}
 		peak = math.Max(peak, row.Z)
 		if peak > 0 && row.Z < (1-ld.StopDrop)*peak {
