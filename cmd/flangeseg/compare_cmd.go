@@ -10,8 +10,9 @@ import (
 	"strconv"
 	"strings"
 
-	"flangeseg/fem/segment"
 	"flangeseg/post"
+	"flangeseg/post/note"
+	"flangeseg/post/results"
 )
 
 func runCompare(args []string, stdout, stderr io.Writer) int {
@@ -56,7 +57,7 @@ Flags:
 		return code
 	}
 	compareTable(stdout, names, sums)
-	if err := segment.WriteCompareReport(*outDir, names, jobs, sums); err != nil {
+	if err := note.WriteCompare(*outDir, names, jobs, sums); err != nil {
 		fmt.Fprintf(stderr, "flangeseg compare: writing the report: %v\n", err)
 		return exitAnalysis
 	}
@@ -70,8 +71,8 @@ Flags:
 
 // compareJobs loads every model (all errors are reported before any run)
 // and gives each a run directory named after its file.
-func compareJobs(paths []string, dir string, stderr io.Writer) ([]segment.ModelJob, []string, bool) {
-	var jobs []segment.ModelJob
+func compareJobs(paths []string, dir string, stderr io.Writer) ([]note.ModelJob, []string, bool) {
+	var jobs []note.ModelJob
 	var names []string
 	used := map[string]int{}
 	ok := true
@@ -90,14 +91,14 @@ func compareJobs(paths []string, dir string, stderr io.Writer) ([]segment.ModelJ
 			name = fmt.Sprintf("%s_%d", name, n)
 		}
 		names = append(names, name)
-		jobs = append(jobs, segment.ModelJob{Spec: spec, Path: path, Dir: filepath.Join(dir, name)})
+		jobs = append(jobs, note.ModelJob{Spec: spec, Path: path, Dir: filepath.Join(dir, name)})
 	}
 	return jobs, names, ok
 }
 
 // writeComparison writes the table as CSV (one row per model) and the
 // overlaid curves.
-func writeComparison(dir string, names []string, jobs []segment.ModelJob, sums []segment.Summary) error {
+func writeComparison(dir string, names []string, jobs []note.ModelJob, sums []results.Summary) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}
@@ -136,7 +137,7 @@ func writeComparison(dir string, names []string, jobs []segment.ModelJob, sums [
 	fsz := post.Plot{Title: "Bolt force against segment force", XLabel: "Z [kN]", YLabel: "F_s [kN]"}
 	zu := post.Plot{Title: "Segment force against displacement", XLabel: "u [mm]", YLabel: "Z [kN]"}
 	for i, j := range jobs {
-		h, err := segment.ReadHistoryColumns(filepath.Join(j.Dir, "history.csv"))
+		h, err := results.ReadHistoryColumns(filepath.Join(j.Dir, "history.csv"))
 		if err != nil {
 			return err
 		}

@@ -9,8 +9,8 @@ import (
 	"strings"
 	"testing"
 
-	"flangeseg/fem/segment"
 	"flangeseg/fem/segment/modelfile"
+	"flangeseg/post/note"
 )
 
 // coarseModelFile writes demo model i with a coarse mesh and few
@@ -119,7 +119,7 @@ func TestToFailureVariant(t *testing.T) {
 // The note's comparison rows are those of the printed table and
 // comparison.csv, in the same order.
 func TestReportComparedFiguresMatch(t *testing.T) {
-	a, b := segment.ComparedColumns(), comparedQuantities()
+	a, b := note.ComparedColumns(), comparedQuantities()
 	if len(a) != len(b) {
 		t.Fatalf("%d figures in the note, %d in the table", len(a), len(b))
 	}

@@ -1,16 +1,15 @@
 package main
 
 import (
-	"encoding/json"
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"text/tabwriter"
 
-	"flangeseg/fem/segment"
 	"flangeseg/fem/segment/modelfile"
+	"flangeseg/post/note"
+	"flangeseg/post/results"
 )
 
 func runDemo(args []string, stdout, stderr io.Writer) int {
@@ -53,7 +52,7 @@ Flags:
 			return exitBadInput
 		}
 		toFailureVariant(spec)
-		return runModel(segment.ModelJob{Spec: spec, Path: "flat.toml, to failure", Dir: filepath.Join(*outDir, "flat_to_failure")}, runFlags{verbose: *verbose}, stdout, stderr)
+		return runModel(note.ModelJob{Spec: spec, Path: "flat.toml, to failure", Dir: filepath.Join(*outDir, "flat_to_failure")}, runFlags{verbose: *verbose}, stdout, stderr)
 	}
 	if *printModel {
 		for _, m := range models {
@@ -61,21 +60,21 @@ Flags:
 		}
 		return exitOK
 	}
-	jobs := make([]segment.ModelJob, len(models))
+	jobs := make([]note.ModelJob, len(models))
 	for i, m := range models {
 		spec, err := modelfile.Decode(m.Data)
 		if err != nil {
 			fmt.Fprintf(stderr, "demo %s: %v\n", m.Name, err)
 			return exitBadInput
 		}
-		jobs[i] = segment.ModelJob{Spec: spec, Path: m.Name + ".toml", Dir: filepath.Join(*outDir, m.Name), Text: m.Data}
+		jobs[i] = note.ModelJob{Spec: spec, Path: m.Name + ".toml", Dir: filepath.Join(*outDir, m.Name), Text: m.Data}
 	}
 	sums, code := runModels(jobs, "demo", *verbose, stdout, stderr)
 	if code != exitOK {
 		return code
 	}
 	compareTable(stdout, []string{"flat face", "defined bands"}, sums)
-	if err := segment.WriteCompareReport(*outDir, []string{"flat face", "defined bands"}, jobs, sums); err != nil {
+	if err := note.WriteCompare(*outDir, []string{"flat face", "defined bands"}, jobs, sums); err != nil {
 		fmt.Fprintf(stderr, "flangeseg demo: writing the report: %v\n", err)
 		return exitAnalysis
 	}
@@ -91,19 +90,10 @@ func toFailureVariant(s *modelfile.Spec) {
 	s.Load.MaxDisplacement, s.Load.Increments = 30, 60
 }
 
-func readSummary(path string) (segment.Summary, error) {
-	var s segment.Summary
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return s, err
-	}
-	return s, json.Unmarshal(data, &s)
-}
-
 // comparedQuantity is one row of a comparison: a joint figure of a run.
 type comparedQuantity struct {
 	name, column string // table text with unit; CSV column name
-	get          func(s segment.Summary) float64
+	get          func(s results.Summary) float64
 }
 
 func comparedQuantities() []comparedQuantity {
@@ -114,21 +104,21 @@ func comparedQuantities() []comparedQuantity {
 		return *p
 	}
 	return []comparedQuantity{
-		{"stiffness at Z = 0 [kN/mm]", "stiffness_tangent_at_zero_kN_per_mm", func(s segment.Summary) float64 { return s.Joint.StiffnessTangentZero }},
-		{"secant stiffness to reference [kN/mm]", "stiffness_secant_to_reference_kN_per_mm", func(s segment.Summary) float64 { return ptr(s.Joint.StiffnessToReference) }},
-		{"joint alone, secant to reference [kN/mm]", "joint_stiffness_secant_to_reference_kN_per_mm", func(s segment.Summary) float64 { return ptr(s.Joint.JointStiffnessReference) }},
-		{"load factor at Z = 0 [-]", "load_factor_tangent_at_zero", func(s segment.Summary) float64 { return s.Joint.LoadFactorTangentZero }},
-		{"load factor, secant to reference [-]", "load_factor_secant_to_reference", func(s segment.Summary) float64 { return ptr(s.Joint.LoadFactorToReference) }},
-		{"opening load [kN]", "opening_load_kN", func(s segment.Summary) float64 { return ptr(s.Joint.OpeningLoadKN) }},
-		{"decompression load [kN]", "decompression_load_kN", func(s segment.Summary) float64 { return ptr(s.Joint.DecompressionKN) }},
-		{"peak segment force [kN]", "peak_load_kN", func(s segment.Summary) float64 { return s.Joint.PeakLoadKN }},
-		{"displacement at the end [mm]", "displacement_at_end_mm", func(s segment.Summary) float64 { return s.Joint.DisplacementEndMM }},
+		{"stiffness at Z = 0 [kN/mm]", "stiffness_tangent_at_zero_kN_per_mm", func(s results.Summary) float64 { return s.Joint.StiffnessTangentZero }},
+		{"secant stiffness to reference [kN/mm]", "stiffness_secant_to_reference_kN_per_mm", func(s results.Summary) float64 { return ptr(s.Joint.StiffnessToReference) }},
+		{"joint alone, secant to reference [kN/mm]", "joint_stiffness_secant_to_reference_kN_per_mm", func(s results.Summary) float64 { return ptr(s.Joint.JointStiffnessReference) }},
+		{"load factor at Z = 0 [-]", "load_factor_tangent_at_zero", func(s results.Summary) float64 { return s.Joint.LoadFactorTangentZero }},
+		{"load factor, secant to reference [-]", "load_factor_secant_to_reference", func(s results.Summary) float64 { return ptr(s.Joint.LoadFactorToReference) }},
+		{"opening load [kN]", "opening_load_kN", func(s results.Summary) float64 { return ptr(s.Joint.OpeningLoadKN) }},
+		{"decompression load [kN]", "decompression_load_kN", func(s results.Summary) float64 { return ptr(s.Joint.DecompressionKN) }},
+		{"peak segment force [kN]", "peak_load_kN", func(s results.Summary) float64 { return s.Joint.PeakLoadKN }},
+		{"displacement at the end [mm]", "displacement_at_end_mm", func(s results.Summary) float64 { return s.Joint.DisplacementEndMM }},
 	}
 }
 
 // compareTable prints the joint figures of several runs with their ratio
 // to the first.
-func compareTable(w io.Writer, names []string, sums []segment.Summary) {
+func compareTable(w io.Writer, names []string, sums []results.Summary) {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprint(tw, "quantity\t")
 	for i, n := range names {

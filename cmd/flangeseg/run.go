@@ -17,6 +17,8 @@ import (
 	"flangeseg/fem/segment"
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/fem/sparse"
+	"flangeseg/post/note"
+	"flangeseg/post/results"
 )
 
 func runRun(args []string, stdout, stderr io.Writer) int {
@@ -60,7 +62,7 @@ Flags:
 		fmt.Fprintln(stderr, err)
 		return exitBadInput
 	}
-	return runModel(segment.ModelJob{Spec: spec, Path: path, Dir: dir}, runFlags{verbose: *verbose, dump: *dump}, stdout, stderr)
+	return runModel(note.ModelJob{Spec: spec, Path: path, Dir: dir}, runFlags{verbose: *verbose, dump: *dump}, stdout, stderr)
 }
 
 // runFlags are the options of a run that do not come from the model file.
@@ -74,7 +76,7 @@ type runFlags struct {
 
 // runModel runs one valid model and writes its results; it returns the
 // exit code.
-func runModel(job segment.ModelJob, flags runFlags, stdout, stderr io.Writer) int {
+func runModel(job note.ModelJob, flags runFlags, stdout, stderr io.Writer) int {
 	spec, path, dir := job.Spec, job.Path, job.Dir
 	for _, w := range spec.Derive().Warnings {
 		fmt.Fprintf(stderr, "%s: warning: %s\n", path, w)
@@ -111,7 +113,10 @@ func runModel(job segment.ModelJob, flags runFlags, stdout, stderr io.Writer) in
 		fmt.Fprintf(stderr, "%s: analysis: %v\n", path, err)
 		return exitAnalysis
 	}
-	sum, err := segment.WriteResults(dir, path, job.Text, res)
+	sum, err := results.Write(dir, path, res)
+	if err == nil {
+		err = note.WriteRun(dir, path, job.Text, res, sum)
+	}
 	if err != nil {
 		fmt.Fprintf(stderr, "%s: writing results: %v\n", path, err)
 		return exitAnalysis
@@ -178,7 +183,7 @@ func kNPerMMOr(p *float64) string {
 	return fmt.Sprintf("%.0f kN/mm", *p)
 }
 
-func printSummary(w io.Writer, s segment.Summary, dir string, took time.Duration) {
+func printSummary(w io.Writer, s results.Summary, dir string, took time.Duration) {
 	j := s.Joint
 	fmt.Fprintf(w, "%s\n", s.Title)
 	fmt.Fprintf(w, "  preload               %.1f kN (target %.1f kN)\n", j.PreloadReachedKN, j.PreloadTargetKN)

@@ -8,7 +8,8 @@ import (
 	"runtime"
 	"sync"
 
-	"flangeseg/fem/segment"
+	"flangeseg/post/note"
+	"flangeseg/post/results"
 )
 
 // runModels runs valid models side by side, as many at once as there are
@@ -17,12 +18,12 @@ import (
 // verbose runs them one by one to keep the iteration logs apart. On a
 // terminal one progress bar counts the increments of all. The exit code is
 // the first failing model's, after every model has run.
-func runModels(jobs []segment.ModelJob, label string, verbose bool, stdout, stderr io.Writer) ([]segment.Summary, int) {
+func runModels(jobs []note.ModelJob, label string, verbose bool, stdout, stderr io.Writer) ([]results.Summary, int) {
 	type outcome struct {
 		code        int
 		out, errOut bytes.Buffer
 	}
-	results := make([]outcome, len(jobs))
+	outs := make([]outcome, len(jobs))
 	total := 0
 	for _, j := range jobs {
 		total += j.Spec.Load.Increments
@@ -33,7 +34,7 @@ func runModels(jobs []segment.ModelJob, label string, verbose bool, stdout, stde
 	var wg sync.WaitGroup
 	slots := make(chan struct{}, max(1, runtime.NumCPU()))
 	for i, j := range jobs {
-		o := &results[i]
+		o := &outs[i]
 		flags := runFlags{verbose: verbose}
 		if progress != nil {
 			flags.progress = func(n int) {
@@ -57,10 +58,10 @@ func runModels(jobs []segment.ModelJob, label string, verbose bool, stdout, stde
 	if progress != nil {
 		progress(nil)
 	}
-	var sums []segment.Summary
+	var sums []results.Summary
 	code := exitOK
 	for i, j := range jobs {
-		o := &results[i]
+		o := &outs[i]
 		stdout.Write(o.out.Bytes())
 		fmt.Fprintln(stdout)
 		stderr.Write(o.errOut.Bytes())
@@ -70,7 +71,7 @@ func runModels(jobs []segment.ModelJob, label string, verbose bool, stdout, stde
 			}
 			continue
 		}
-		s, err := readSummary(filepath.Join(j.Dir, "summary.json"))
+		s, err := results.ReadSummary(filepath.Join(j.Dir, "summary.json"))
 		if err != nil {
 			fmt.Fprintf(stderr, "%s: %v\n", j.Path, err)
 			code = exitAnalysis

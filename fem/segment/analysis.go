@@ -8,6 +8,7 @@ import (
 
 	"flangeseg/contact"
 	"flangeseg/fem"
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/material"
 	"flangeseg/mesh"
 	"flangeseg/post/handcalc"
@@ -15,8 +16,8 @@ import (
 
 // segment is one bolt segment turned into a finite-element model.
 type segment struct {
-	spec    *Spec
-	der     Derived
+	spec    *modelfile.Spec
+	der     modelfile.Derived
 	mesh    *mesh.Mesh
 	model   *fem.Model
 	edge    fem.RigidEdge
@@ -55,7 +56,7 @@ type boltCut struct {
 }
 
 // geometry maps the model file to the mesher's description.
-func geometry(s *Spec, d Derived) mesh.FlangeSegment {
+func geometry(s *modelfile.Spec, d modelfile.Derived) mesh.FlangeSegment {
 	kind := mesh.Quad8
 	if s.Mesh.Element == "quad4" {
 		kind = mesh.Quad4
@@ -98,7 +99,7 @@ func geometry(s *Spec, d Derived) mesh.FlangeSegment {
 
 // buildSegment meshes the joint and sets up supports, ring springs,
 // contact pairs and the loaded edge.
-func buildSegment(s *Spec, d Derived) (*segment, error) {
+func buildSegment(s *modelfile.Spec, d modelfile.Derived) (*segment, error) {
 	g := &segment{spec: s, der: d}
 	msh, err := mesh.BuildFlangeSegment(geometry(s, d), partMaterials(s))
 	if err != nil {
@@ -162,7 +163,7 @@ func buildSegment(s *Spec, d Derived) (*segment, error) {
 	if !(d.ShellYield > 0 && d.FlangeYield > 0) {
 		// Every run reports the hand methods beside the FE; they need f_y.
 		return nil, fmt.Errorf("hand methods: shell f_y = %s MPa, flange f_y = %s MPa: both must be > 0; a [materials] entry without a curve has none — give it a curve, or use a built-in grade with analysis.materials = %q for a linear elastic analysis",
-			fnum(d.ShellYield), fnum(d.FlangeYield), elasticOnly)
+			modelfile.FormatNumber(d.ShellYield), modelfile.FormatNumber(d.FlangeYield), modelfile.ElasticOnly)
 	}
 	if g.hand, err = handcalc.Analyze(s.HandJoint(d), handcalc.DefaultParams()); err != nil {
 		return nil, fmt.Errorf("hand methods: %w", err)

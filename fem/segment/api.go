@@ -24,7 +24,7 @@ func Build(spec *modelfile.Spec) (*Segment, error) { return buildSegment(spec, s
 // Spec is the model the segment was built from; do not modify it.
 func (g *segment) Spec() *modelfile.Spec { return g.spec }
 
-// Derived are the model's derived quantities.
+// modelfile.Derived are the model's derived quantities.
 func (g *segment) Derived() modelfile.Derived { return g.der }
 
 // Mesh is the strip model's mesh.
@@ -93,8 +93,6 @@ type Result struct {
 	Failure   error
 	Timing    fem.Timing
 	Equations int
-
-	a *analysis // for the writers in this package
 }
 
 // State is a converged state kept for field output.
@@ -132,46 +130,10 @@ func (g *segment) Run(ctx context.Context, opt Options) (*Result, error) {
 		return nil, err
 	}
 	r := &Result{Segment: g, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure,
-		Timing: a.timing, Equations: a.equation, Figures: jointFigures(g, a), a: a}
+		Timing: a.timing, Equations: a.equation, Figures: jointFigures(g, a)}
 	for _, st := range a.states {
 		r.States = append(r.States, State{Label: st.label, Row: st.row, Solution: st.solution, Contacts: st.contacts,
 			Plastic: st.history.plastic, Damage: st.history.damage})
 	}
 	return r, nil
-}
-
-// Summary is summary.json.
-type Summary = summary
-
-// WriteResults writes every output file of a run into dir: the resolved
-// model, history.csv, summary.json, report.html, the plots and the VTK
-// fields. modelPath names the model file in them; text is the model's text
-// when it is not on disk at modelPath, else nil.
-func WriteResults(dir, modelPath string, text []byte, r *Result) (Summary, error) {
-	return writeResults(dir, modelPath, text, r.Segment, r.a)
-}
-
-// WriteCompareReport writes dir/report.html, one note for the runs of a
-// comparison (names, jobs and sums in the same order, the first the
-// reference of every ratio), from their run directories.
-func WriteCompareReport(dir string, names []string, jobs []ModelJob, sums []Summary) error {
-	return writeCompareReport(dir, names, jobs, sums)
-}
-
-// ModelJob is one model of a demo or compare run.
-type ModelJob struct {
-	Spec *modelfile.Spec
-	Path string // as the user named it, for messages
-	Dir  string // its run directory
-	Text []byte // the model's text when it is not on disk at Path (the embedded demo models), else nil
-}
-
-// ComparedColumns are the summary.json columns of the joint figures that
-// the comparison note sets side by side, in its order.
-func ComparedColumns() []string {
-	var out []string
-	for _, f := range comparedFigures() {
-		out = append(out, f.column)
-	}
-	return out
 }

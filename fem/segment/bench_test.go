@@ -50,7 +50,7 @@ func BenchmarkFailure(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		spec.Analysis.Materials, spec.Analysis.LargeDeformation = elastoplastic, true
+		spec.Analysis.Materials, spec.Analysis.LargeDeformation = modelfile.Elastoplastic, true
 		spec.Load.MaxDisplacement, spec.Load.Increments = 6, 48
 		g, res := analyseSpec(b, spec)
 		tm := res.timing

@@ -13,13 +13,13 @@ import (
 
 // coarseDemo is the flat demo joint on a coarse mesh with few increments,
 // so that the whole pipeline runs in a test.
-func coarseDemo(t *testing.T, edit func(*Spec)) (*segment, *analysis) {
+func coarseDemo(t *testing.T, edit func(*modelfile.Spec)) (*segment, *analysis) {
 	t.Helper()
 	return coarseModel(t, 0, edit)
 }
 
 // coarseModel is coarseDemo for demo model i (0 flat face, 1 bands).
-func coarseModel(t *testing.T, i int, edit func(*Spec)) (*segment, *analysis) {
+func coarseModel(t *testing.T, i int, edit func(*modelfile.Spec)) (*segment, *analysis) {
 	t.Helper()
 	spec, err := modelfile.Decode(demoModels()[i].Data)
 	if err != nil {
@@ -38,7 +38,7 @@ func coarseModel(t *testing.T, i int, edit func(*Spec)) (*segment, *analysis) {
 
 // analyseSpec builds a valid model and runs it through; a setup error or an
 // analysis that stops early fails the test.
-func analyseSpec(tb testing.TB, spec *Spec) (*segment, *analysis) {
+func analyseSpec(tb testing.TB, spec *modelfile.Spec) (*segment, *analysis) {
 	tb.Helper()
 	g, err := buildSegment(spec, spec.Derive())
 	if err != nil {
@@ -72,15 +72,15 @@ func TestPreloadWays(t *testing.T) {
 	force, fraction, turn := 600e3, 0.8, 60.0
 	cases := []struct {
 		name string
-		edit func(*Spec)
+		edit func(*modelfile.Spec)
 	}{
-		{"force", func(s *Spec) { s.Preload = modelfile.PreloadSpec{Force: &force} }},
-		{"fraction", func(s *Spec) { s.Preload = modelfile.PreloadSpec{Fraction: &fraction} }},
-		{"nut turn", func(s *Spec) { s.Preload = modelfile.PreloadSpec{NutTurn: &turn} }},
+		{"force", func(s *modelfile.Spec) { s.Preload = modelfile.PreloadSpec{Force: &force} }},
+		{"fraction", func(s *modelfile.Spec) { s.Preload = modelfile.PreloadSpec{Fraction: &fraction} }},
+		{"nut turn", func(s *modelfile.Spec) { s.Preload = modelfile.PreloadSpec{NutTurn: &turn} }},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			g, res := coarseDemo(t, func(s *Spec) { c.edit(s); s.Load.Increments = 1; s.Load.MaxDisplacement = 0.05 })
+			g, res := coarseDemo(t, func(s *modelfile.Spec) { c.edit(s); s.Load.Increments = 1; s.Load.MaxDisplacement = 0.05 })
 			got := res.rows[0].Fs
 			switch {
 			case g.der.PreloadForce > 0:
@@ -112,7 +112,7 @@ func TestPreloadWays(t *testing.T) {
 // the facts' own statement: rising after opening, above 1 by the end,
 // never above 1.02·(a + b)/a.
 func TestJointBehaviour(t *testing.T) {
-	g, res := coarseDemo(t, func(s *Spec) { s.Load.Increments, s.Load.MaxDisplacement = 16, 1.6 })
+	g, res := coarseDemo(t, func(s *modelfile.Spec) { s.Load.Increments, s.Load.MaxDisplacement = 16, 1.6 })
 	rows := res.rows
 	f := jointFigures(g, res)
 	if f.OpeningLoadKN == nil || f.DecompressionKN == nil {
@@ -201,7 +201,7 @@ func TestDefinedContactBands(t *testing.T) {
 	if testing.Short() {
 		t.Skip("two demo analyses")
 	}
-	edit := func(s *Spec) { s.Load.Increments, s.Load.MaxDisplacement = 12, 1.2 }
+	edit := func(s *modelfile.Spec) { s.Load.Increments, s.Load.MaxDisplacement = 12, 1.2 }
 	gf, rf := coarseModel(t, 0, edit)
 	gb, rb := coarseModel(t, 1, edit)
 	flat, bands := jointFigures(gf, rf), jointFigures(gb, rb)
@@ -313,7 +313,7 @@ func TestThreadTrend(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		spec.Analysis.Materials, spec.Analysis.LargeDeformation = elastoplastic, true
+		spec.Analysis.Materials, spec.Analysis.LargeDeformation = modelfile.Elastoplastic, true
 		spec.Mesh.Size, spec.Mesh.Refine = 12, 0.5
 		spec.Load.MaxDisplacement, spec.Load.Increments = 32, 48
 		spec.Bolt.Thread = thread

@@ -8,6 +8,7 @@ import (
 	"flangeseg/contact"
 	"flangeseg/fem"
 	"flangeseg/fem/segment/figures"
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/fem/sparse"
 )
 
@@ -152,7 +153,7 @@ func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 // the initial gap at the bolt axis that the shortening closes first.
 func (g *segment) preloadEstimate(f float64) float64 {
 	lk := 2 * (g.spec.Flange.Thickness + g.spec.Bolt.WasherThickness)
-	shortening := 2*f*lk/(steelE*g.der.StressArea) + g.faceGap(0)
+	shortening := 2*f*lk/(modelfile.SteelE*g.der.StressArea) + g.faceGap(0)
 	return -shortening / g.slice
 }
 

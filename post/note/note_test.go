@@ -1,7 +1,8 @@
-package segment
+package note
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"os"
 	"path/filepath"
@@ -9,31 +10,32 @@ import (
 	"strings"
 	"testing"
 
+	"flangeseg/fem/segment"
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/mesh"
 	"flangeseg/post"
+	"flangeseg/post/results"
 )
 
 // reportRun is a coarse demo run written as far as a comparison reads
 // it: history.csv and summary.json in its run directory.
 type reportRun struct {
-	g   *segment
-	res *analysis
-	sum summary
+	res *segment.Result
+	sum results.Summary
 	job ModelJob
 }
 
 func newReportRun(t *testing.T, i int) reportRun {
 	t.Helper()
-	g, res := coarseModel(t, i, nil)
+	res := coarseRun(t, i)
 	name := demoModels()[i].Name
 	dir := filepath.Join(t.TempDir(), name)
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		t.Fatal(err)
 	}
 	path := name + ".toml"
-	sum := makeSummary(path, g, res)
-	tab, err := historyTable(g, res)
+	sum := results.NewSummary(path, res)
+	tab, err := results.HistoryTable(res)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -43,7 +45,7 @@ func newReportRun(t *testing.T, i int) reportRun {
 	if err := post.WriteJSON(filepath.Join(dir, "summary.json"), sum); err != nil {
 		t.Fatal(err)
 	}
-	return reportRun{g: g, res: res, sum: sum, job: ModelJob{Spec: g.spec, Path: path, Dir: dir, Text: demoModels()[i].Data}}
+	return reportRun{res: res, sum: sum, job: ModelJob{Spec: res.Segment.Spec(), Path: path, Dir: dir, Text: demoModels()[i].Data}}
 }
 
 func readFile(t *testing.T, path string) []byte {
@@ -84,13 +86,13 @@ var runSections = []string{"Joint section and dimensions", "Inputs", "Preload", 
 func TestReportRunAndCompare(t *testing.T) {
 	runs := []reportRun{newReportRun(t, 0), newReportRun(t, 1)}
 	var jobs []ModelJob
-	var sums []summary
+	var sums []results.Summary
 	for _, r := range runs {
-		if err := writeRunReport(r.job.Dir, r.job.Path, r.job.Text, r.g, r.res, r.sum); err != nil {
+		if err := WriteRun(r.job.Dir, r.job.Path, r.job.Text, r.res, r.sum); err != nil {
 			t.Fatal(err)
 		}
 		first := readFile(t, filepath.Join(r.job.Dir, "report.html"))
-		if err := writeRunReport(r.job.Dir, r.job.Path, r.job.Text, r.g, r.res, r.sum); err != nil {
+		if err := WriteRun(r.job.Dir, r.job.Path, r.job.Text, r.res, r.sum); err != nil {
 			t.Fatal(err)
 		}
 		if !bytes.Equal(first, readFile(t, filepath.Join(r.job.Dir, "report.html"))) {
@@ -99,8 +101,8 @@ func TestReportRunAndCompare(t *testing.T) {
 		page := string(first)
 		checkPage(t, page, runSections)
 		for _, want := range []string{
-			r.g.spec.Title,
-			"flangeseg " + version,
+			r.res.Segment.Spec().Title,
+			"flangeseg " + post.Version,
 			"flange thickness (flange.thickness)", // every key with its path
 			"EN 1993-1-8, 3.9",                    // F_p,C with its source
 			"ISO 898-1",                           // A_s with its source
@@ -121,11 +123,11 @@ func TestReportRunAndCompare(t *testing.T) {
 
 	dir := filepath.Join(t.TempDir(), "cmp")
 	names := []string{"flat", "bands"}
-	if err := writeCompareReport(dir, names, jobs, sums); err != nil {
+	if err := WriteCompare(dir, names, jobs, sums); err != nil {
 		t.Fatal(err)
 	}
 	first := readFile(t, filepath.Join(dir, "report.html"))
-	if err := writeCompareReport(dir, names, jobs, sums); err != nil {
+	if err := WriteCompare(dir, names, jobs, sums); err != nil {
 		t.Fatal(err)
 	}
 	if !bytes.Equal(first, readFile(t, filepath.Join(dir, "report.html"))) {
@@ -133,7 +135,7 @@ func TestReportRunAndCompare(t *testing.T) {
 	}
 	page := string(first)
 	checkPage(t, page, append([]string{"Models compared", "Comparison", "Overlaid curves", "Run 1 — ", "Run 2 — "}, runSections...))
-	for _, want := range []string{"run 2 / run 1", "Bolt force against segment force, all runs", "run 2, bands", runs[1].g.spec.Title} {
+	for _, want := range []string{"run 2 / run 1", "Bolt force against segment force, all runs", "run 2, bands", runs[1].res.Segment.Spec().Title} {
 		if !strings.Contains(page, want) {
 			t.Errorf("compare report.html lacks %q", want)
 		}
@@ -142,7 +144,7 @@ func TestReportRunAndCompare(t *testing.T) {
 
 // A comparison needs one name, model and summary per run.
 func TestReportCompareMismatch(t *testing.T) {
-	if err := writeCompareReport(t.TempDir(), []string{"a"}, nil, nil); err == nil {
+	if err := WriteCompare(t.TempDir(), []string{"a"}, nil, nil); err == nil {
 		t.Error("no error for one name and no models")
 	}
 }
@@ -152,7 +154,7 @@ func TestReportCompareMismatch(t *testing.T) {
 func TestReportInputKeysCoverSpec(t *testing.T) {
 	keys := inputKeys()
 	seen := map[string]bool{}
-	v := reflect.TypeOf(Spec{})
+	v := reflect.TypeOf(modelfile.Spec{})
 	for i := range v.NumField() {
 		f := v.Field(i)
 		if f.Type.Kind() != reflect.Struct {
@@ -235,13 +237,13 @@ func TestReportPreloadFailed(t *testing.T) {
 		t.Fatal(err)
 	}
 	spec.Mesh.Size, spec.Mesh.Refine = 16, 0.5
-	g, err := buildSegment(spec, spec.Derive())
+	g, err := segment.Build(spec)
 	if err != nil {
 		t.Fatal(err)
 	}
-	res := &analysis{failure: errors.New("preload: not converged"), ending: "the preload stage did not converge"}
+	res := &segment.Result{Segment: g, Failure: errors.New("preload: not converged"), Ending: "the preload stage did not converge"}
 	dir := t.TempDir()
-	if err := writeRunReport(dir, "flat.toml", demoModels()[0].Data, g, res, makeSummary("flat.toml", g, res)); err != nil {
+	if err := WriteRun(dir, "flat.toml", demoModels()[0].Data, res, results.NewSummary("flat.toml", res)); err != nil {
 		t.Fatal(err)
 	}
 	page := string(readFile(t, filepath.Join(dir, "report.html")))
@@ -251,4 +253,43 @@ func TestReportPreloadFailed(t *testing.T) {
 			t.Errorf("report.html lacks %q", want)
 		}
 	}
+}
+
+// coarseRun runs demo model i on a coarse mesh, in six increments to
+// 0.6 mm.
+func coarseRun(t *testing.T, i int) *segment.Result {
+	t.Helper()
+	spec, err := modelfile.Decode(demoModels()[i].Data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec.Mesh.Size, spec.Mesh.Refine = 16, 0.5
+	spec.Load.Increments, spec.Load.MaxDisplacement = 6, 0.6
+	if err := spec.Validate(); err != nil {
+		t.Fatal(err)
+	}
+	res, err := segment.Run(context.Background(), spec, segment.Options{})
+	if err != nil || res.Failure != nil {
+		t.Fatal(err, res.Failure)
+	}
+	return res
+}
+
+// demoModel is a demo model as the binary embeds it; the tests read the
+// files from cmd/flangeseg/demo, so there is one copy.
+type demoModel struct {
+	Name string // "flat", "bands"
+	Data []byte
+}
+
+func demoModels() []demoModel {
+	var out []demoModel
+	for _, name := range []string{"flat", "bands"} {
+		data, err := os.ReadFile(filepath.Join("..", "..", "cmd", "flangeseg", "demo", name+".toml"))
+		if err != nil {
+			panic(err) // a test needs them; the checkout lacks them
+		}
+		out = append(out, demoModel{Name: name, Data: data})
+	}
+	return out
 }
