@@ -1,16 +1,12 @@
 package main
 
 import (
-	"encoding/csv"
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
-	"strconv"
 	"strings"
 
-	"flangeseg/post"
 	"flangeseg/post/note"
 	"flangeseg/post/results"
 )
@@ -61,7 +57,11 @@ Flags:
 		fmt.Fprintf(stderr, "flangeseg compare: writing the report: %v\n", err)
 		return exitAnalysis
 	}
-	if err := writeComparison(*outDir, names, jobs, sums); err != nil {
+	paths, dirs := make([]string, len(jobs)), make([]string, len(jobs))
+	for i, j := range jobs {
+		paths[i], dirs[i] = j.Path, j.Dir
+	}
+	if err := results.WriteComparison(*outDir, names, paths, dirs, sums); err != nil {
 		fmt.Fprintf(stderr, "flangeseg compare: writing the comparison: %v\n", err)
 		return exitAnalysis
 	}
@@ -94,58 +94,4 @@ func compareJobs(paths []string, dir string, stderr io.Writer) ([]note.ModelJob,
 		jobs = append(jobs, note.ModelJob{Spec: spec, Path: path, Dir: filepath.Join(dir, name)})
 	}
 	return jobs, names, ok
-}
-
-// writeComparison writes the table as CSV (one row per model) and the
-// overlaid curves.
-func writeComparison(dir string, names []string, jobs []note.ModelJob, sums []results.Summary) error {
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return err
-	}
-	quantities := comparedQuantities()
-	err := post.WriteFileAtomic(filepath.Join(dir, "comparison.csv"), func(w io.Writer) error {
-		cw := csv.NewWriter(w)
-		head := []string{"model", "file"}
-		for _, q := range quantities {
-			head = append(head, q.column, "ratio_"+q.column)
-		}
-		head = append(head, "failure_mechanism")
-		if err := cw.Write(head); err != nil {
-			return err
-		}
-		for i, s := range sums {
-			row := []string{names[i], jobs[i].Path}
-			for _, q := range quantities {
-				v, base := q.get(s), q.get(sums[0])
-				ratio := ""
-				if base != 0 {
-					ratio = strconv.FormatFloat(v/base, 'g', 6, 64)
-				}
-				row = append(row, strconv.FormatFloat(v, 'g', 10, 64), ratio)
-			}
-			row = append(row, s.Joint.FailureLocation)
-			if err := cw.Write(row); err != nil {
-				return err
-			}
-		}
-		cw.Flush()
-		return cw.Error()
-	})
-	if err != nil {
-		return err
-	}
-	fsz := post.Plot{Title: "Bolt force against segment force", XLabel: "Z [kN]", YLabel: "F_s [kN]"}
-	zu := post.Plot{Title: "Segment force against displacement", XLabel: "u [mm]", YLabel: "Z [kN]"}
-	for i, j := range jobs {
-		h, err := results.ReadHistoryColumns(filepath.Join(j.Dir, "history.csv"))
-		if err != nil {
-			return err
-		}
-		fsz.Series = append(fsz.Series, post.Series{Name: names[i], X: h["Z_kN"], Y: h["bolt_force_kN"]})
-		zu.Series = append(zu.Series, post.Series{Name: names[i], X: h["u_mm"], Y: h["Z_kN"]})
-	}
-	if err := post.WritePlot(filepath.Join(dir, "compare_Fs_Z"), fsz); err != nil {
-		return err
-	}
-	return post.WritePlot(filepath.Join(dir, "compare_Z_u"), zu)
 }

@@ -10,7 +10,6 @@ import (
 	"testing"
 
 	"flangeseg/fem/segment/modelfile"
-	"flangeseg/post/note"
 )
 
 // coarseModelFile writes demo model i with a coarse mesh and few
@@ -113,19 +112,5 @@ func TestToFailureVariant(t *testing.T) {
 	}
 	if err := s.Validate(); err != nil {
 		t.Error(err)
-	}
-}
-
-// The note's comparison rows are those of the printed table and
-// comparison.csv, in the same order.
-func TestReportComparedFiguresMatch(t *testing.T) {
-	a, b := note.ComparedColumns(), comparedQuantities()
-	if len(a) != len(b) {
-		t.Fatalf("%d figures in the note, %d in the table", len(a), len(b))
-	}
-	for i := range a {
-		if a[i] != b[i].column {
-			t.Errorf("row %d: note %s, table %s", i, a[i], b[i].column)
-		}
 	}
 }

@@ -90,32 +90,6 @@ func toFailureVariant(s *modelfile.Spec) {
 	s.Load.MaxDisplacement, s.Load.Increments = 30, 60
 }
 
-// comparedQuantity is one row of a comparison: a joint figure of a run.
-type comparedQuantity struct {
-	name, column string // table text with unit; CSV column name
-	get          func(s results.Summary) float64
-}
-
-func comparedQuantities() []comparedQuantity {
-	ptr := func(p *float64) float64 {
-		if p == nil {
-			return 0
-		}
-		return *p
-	}
-	return []comparedQuantity{
-		{"stiffness at Z = 0 [kN/mm]", "stiffness_tangent_at_zero_kN_per_mm", func(s results.Summary) float64 { return s.Joint.StiffnessTangentZero }},
-		{"secant stiffness to reference [kN/mm]", "stiffness_secant_to_reference_kN_per_mm", func(s results.Summary) float64 { return ptr(s.Joint.StiffnessToReference) }},
-		{"joint alone, secant to reference [kN/mm]", "joint_stiffness_secant_to_reference_kN_per_mm", func(s results.Summary) float64 { return ptr(s.Joint.JointStiffnessReference) }},
-		{"load factor at Z = 0 [-]", "load_factor_tangent_at_zero", func(s results.Summary) float64 { return s.Joint.LoadFactorTangentZero }},
-		{"load factor, secant to reference [-]", "load_factor_secant_to_reference", func(s results.Summary) float64 { return ptr(s.Joint.LoadFactorToReference) }},
-		{"opening load [kN]", "opening_load_kN", func(s results.Summary) float64 { return ptr(s.Joint.OpeningLoadKN) }},
-		{"decompression load [kN]", "decompression_load_kN", func(s results.Summary) float64 { return ptr(s.Joint.DecompressionKN) }},
-		{"peak segment force [kN]", "peak_load_kN", func(s results.Summary) float64 { return s.Joint.PeakLoadKN }},
-		{"displacement at the end [mm]", "displacement_at_end_mm", func(s results.Summary) float64 { return s.Joint.DisplacementEndMM }},
-	}
-}
-
 // compareTable prints the joint figures of several runs with their ratio
 // to the first.
 func compareTable(w io.Writer, names []string, sums []results.Summary) {
@@ -128,11 +102,11 @@ func compareTable(w io.Writer, names []string, sums []results.Summary) {
 		}
 	}
 	fmt.Fprintln(tw)
-	for _, r := range comparedQuantities() {
-		fmt.Fprintf(tw, "%s\t", r.name)
-		base := r.get(sums[0])
+	for _, r := range results.ComparedFigures() {
+		fmt.Fprintf(tw, "%s\t", r.Label)
+		base := r.Value(sums[0])
 		for i, s := range sums {
-			v := r.get(s)
+			v := r.Value(s)
 			fmt.Fprintf(tw, "%.3g\t", v)
 			if i > 0 {
 				if base != 0 {

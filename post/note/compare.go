@@ -69,40 +69,6 @@ func WriteCompare(dir string, names []string, jobs []ModelJob, sums []results.Su
 	return report.WriteCompare(filepath.Join(dir, "report.html"), c)
 }
 
-// comparedFigure is one row of the comparison note: a joint figure and
-// whether a run reached it. comparedFigures matches comparedQuantities
-// (the printed table and comparison.csv) row for row; a test checks it.
-type comparedFigure struct {
-	name, column, unit string
-	get                func(s results.Summary) (float64, bool)
-}
-
-func comparedFigures() []comparedFigure {
-	val := func(f func(j figures.Joint) float64) func(s results.Summary) (float64, bool) {
-		return func(s results.Summary) (float64, bool) { return f(s.Joint), true }
-	}
-	opt := func(f func(j figures.Joint) *float64) func(s results.Summary) (float64, bool) {
-		return func(s results.Summary) (float64, bool) {
-			if p := f(s.Joint); p != nil {
-				return *p, true
-			}
-			return 0, false
-		}
-	}
-	one := report.Dimensionless
-	return []comparedFigure{
-		{"stiffness, tangent at Z = 0", "stiffness_tangent_at_zero_kN_per_mm", "kN/mm", val(func(j figures.Joint) float64 { return j.StiffnessTangentZero })},
-		{"stiffness, secant to the reference load", "stiffness_secant_to_reference_kN_per_mm", "kN/mm", opt(func(j figures.Joint) *float64 { return j.StiffnessToReference })},
-		{"joint alone, secant to the reference load", "joint_stiffness_secant_to_reference_kN_per_mm", "kN/mm", opt(func(j figures.Joint) *float64 { return j.JointStiffnessReference })},
-		{"load factor at Z = 0", "load_factor_tangent_at_zero", one, val(func(j figures.Joint) float64 { return j.LoadFactorTangentZero })},
-		{"load factor, secant to the reference load", "load_factor_secant_to_reference", one, opt(func(j figures.Joint) *float64 { return j.LoadFactorToReference })},
-		{"opening load", "opening_load_kN", "kN", opt(func(j figures.Joint) *float64 { return j.OpeningLoadKN })},
-		{"decompression load", "decompression_load_kN", "kN", opt(func(j figures.Joint) *float64 { return j.DecompressionKN })},
-		{"largest segment force", "peak_load_kN", "kN", val(func(j figures.Joint) float64 { return j.PeakLoadKN })},
-		{"displacement at the end", "displacement_at_end_mm", "mm", val(func(j figures.Joint) float64 { return j.DisplacementEndMM })},
-	}
-}
-
 // comparisonTable has a row per joint figure and, per run, its value and
 // (from run 2 on) its ratio to run 1.
 func comparisonTable(names []string, sums []results.Summary) report.Table {
@@ -114,15 +80,15 @@ func comparisonTable(names []string, sums []results.Summary) report.Table {
 			t.Columns = append(t.Columns, report.Column{Heading: fmt.Sprintf("run %d / run 1", i+1), Unit: report.Dimensionless})
 		}
 	}
-	for _, f := range comparedFigures() {
-		row := []report.Cell{report.Text(f.name)}
-		base, baseOK := f.get(sums[0])
+	for _, f := range results.ComparedFigures() {
+		row := []report.Cell{report.Text(f.Name)}
+		base, baseOK := f.Get(sums[0])
 		for i, s := range sums {
-			v, ok := f.get(s)
+			v, ok := f.Get(s)
 			if ok {
-				row = append(row, report.Num(v, f.unit))
+				row = append(row, report.Num(v, f.Unit))
 			} else {
-				row = append(row, report.Missing(f.unit))
+				row = append(row, report.Missing(f.Unit))
 			}
 			if i > 0 {
 				if ok && baseOK && base != 0 {
@@ -197,14 +163,4 @@ type ModelJob struct {
 	Path string // as the user named it, for messages
 	Dir  string // its run directory
 	Text []byte // the model's text when it is not on disk at Path (the embedded demo models), else nil
-}
-
-// ComparedColumns are the summary.json columns of the joint figures that
-// the comparison note sets side by side, in its order.
-func ComparedColumns() []string {
-	var out []string
-	for _, f := range comparedFigures() {
-		out = append(out, f.column)
-	}
-	return out
 }

@@ -293,3 +293,19 @@ func demoModels() []demoModel {
 	}
 	return out
 }
+
+// The note's comparison rows are those of the printed table and
+// comparison.csv (results.ComparedFigures), in the same order, then the
+// mechanism and the reference load.
+func TestReportComparedFiguresMatch(t *testing.T) {
+	figs := results.ComparedFigures()
+	tab := comparisonTable([]string{"a", "b"}, []results.Summary{{}, {}})
+	if len(tab.Rows) != len(figs)+2 {
+		t.Fatalf("%d rows in the note, %d figures in the table", len(tab.Rows), len(figs))
+	}
+	for i, f := range figs {
+		if got := tab.Rows[i][0]; !got.IsText || got.Text != f.Name {
+			t.Errorf("row %d: note %q, table %s", i, got.Text, f.Column)
+		}
+	}
+}
