@@ -2,7 +2,7 @@
 // L-flange joint: a valid model (package modelfile) becomes a strip-model
 // mesh, a finite-element model with supports, ring springs and contact
 // pairs (analysis.go, laws.go), then runs the preload and the tension
-// stage (stages.go: preload, release, record) and returns the history,
+// stage (stages.go: analyse, preload, record) and returns the history,
 // the kept states, the joint figures and the failure mechanism (package
 // figures) in a Result.
 //
