@@ -24,7 +24,7 @@ func Build(spec *modelfile.Spec) (*Segment, error) { return buildSegment(spec, s
 // Spec is the model the segment was built from; do not modify it.
 func (g *segment) Spec() *modelfile.Spec { return g.spec }
 
-// modelfile.Derived are the model's derived quantities.
+// Derived are the model's derived quantities.
 func (g *segment) Derived() modelfile.Derived { return g.der }
 
 // Mesh is the strip model's mesh.

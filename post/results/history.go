@@ -111,6 +111,7 @@ func ReadHistory(path string, zones []segment.Zone) ([]figures.Row, error) {
 	return rows, nil
 }
 
+// Column is the quantity q of every row, in order.
 func Column(rows []figures.Row, q func(figures.Row) float64) []float64 {
 	out := make([]float64, len(rows))
 	for i, r := range rows {

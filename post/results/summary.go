@@ -26,6 +26,7 @@ type Summary struct {
 	Verdict   *handcalc.Verdict `json:"verdict,omitempty"` // with [load] design_force
 }
 
+// MeshSummary is the mesh of a run: its size and element quality.
 type MeshSummary struct {
 	Nodes            int     `json:"nodes"`
 	Elements         int     `json:"elements"`
@@ -35,6 +36,8 @@ type MeshSummary struct {
 	MaxAspectRatio   float64 `json:"max_aspect_ratio"`
 }
 
+// SolverSummary counts the solver's work; the *_s fields are wall-clock
+// seconds, the only values of a run directory that differ between runs.
 type SolverSummary struct {
 	Increments         int     `json:"increments"`
 	NewtonIterations   int     `json:"newton_iterations"`

@@ -62,6 +62,7 @@ type Error struct {
 	Errs []error
 }
 
+// Error lists the problems one per line.
 func (e *Error) Error() string {
 	var b strings.Builder
 	for i, err := range e.Errs {
@@ -76,6 +77,7 @@ func (e *Error) Error() string {
 	return b.String()
 }
 
+// Unwrap gives the problems, for errors.Is and errors.As.
 func (e *Error) Unwrap() []error { return e.Errs }
 
 func syntaxError(err error) error {

@@ -82,6 +82,8 @@ type KeyDefault struct {
 	set  func(*Spec) // nil when the zero value is the default or the key stays unset
 }
 
+// KeyDefaults lists the keys a file may leave out with their defaults, in
+// the order --help states them.
 func KeyDefaults() []KeyDefault {
 	return []KeyDefault{
 		{"title", `""`, nil},

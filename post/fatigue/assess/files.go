@@ -26,6 +26,7 @@ type Summary struct {
 	BoltForceResults []Outcome   `json:"results"`
 }
 
+// LoadSummary describes the load file of an assessment.
 type LoadSummary struct {
 	File      string  `json:"file"`
 	Layout    string  `json:"layout"`
@@ -38,6 +39,7 @@ type LoadSummary struct {
 	Transform string  `json:"tower_to_segment,omitempty"`
 }
 
+// Outcome is one bolt-force function's result.
 type Outcome struct {
 	Function           string  `json:"function"`
 	Stress             string  `json:"stress"`
@@ -46,6 +48,7 @@ type Outcome struct {
 	MaxRangeMPa        float64 `json:"max_range_MPa"`
 }
 
+// Summary is what fatigue_summary.json holds.
 func (j *Job) Summary() Summary {
 	r := post.Round10
 	in := j.info
