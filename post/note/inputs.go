@@ -81,10 +81,12 @@ func inputKeys() map[string]inputKey {
 }
 
 // inputCaptions name the model file's tables.
-var inputCaptions = map[string]string{
-	"tower": "Tower", "shell": "Shell", "flange": "Flange", "bolt": "Bolt, washers and nut",
-	"contact": "Contact faces", "preload": "Preload", "load": "Load (tension stage)",
-	"mesh": "Mesh", "analysis": "Analysis", "fatigue": "Bolt fatigue",
+func inputCaptions() map[string]string {
+	return map[string]string{
+		"tower": "Tower", "shell": "Shell", "flange": "Flange", "bolt": "Bolt, washers and nut",
+		"contact": "Contact faces", "preload": "Preload", "load": "Load (tension stage)",
+		"mesh": "Mesh", "analysis": "Analysis", "fatigue": "Bolt fatigue",
+	}
 }
 
 // keySources says where each key's value comes from: the model file or
@@ -149,7 +151,7 @@ func (n *runNote) inputs() []report.Quantities {
 		if table.Kind() != reflect.Struct {
 			continue // title is the note's title; [materials] follows
 		}
-		q := report.Quantities{Caption: inputCaptions[sec] + " — [" + sec + "]"}
+		q := report.Quantities{Caption: inputCaptions()[sec] + " — [" + sec + "]"}
 		names := modelfile.TableKeys(table.Type())
 		for j, key := range names {
 			path := sec + "." + key

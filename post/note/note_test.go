@@ -161,7 +161,7 @@ func TestReportInputKeysCoverSpec(t *testing.T) {
 			continue
 		}
 		sec, _, _ := strings.Cut(f.Tag.Get("toml"), ",")
-		if _, ok := inputCaptions[sec]; !ok {
+		if _, ok := inputCaptions()[sec]; !ok {
 			t.Errorf("table [%s] has no caption", sec)
 		}
 		names := modelfile.TableKeys(f.Type)

@@ -174,7 +174,9 @@ func handFunction(pts []handcalc.Point) (*fatigue.BoltForceFunction, error) {
 
 // The history.csv columns the FE function is read from (DESIGN.md,
 // "Outputs — names").
-var historyColumns = []string{"stage", "Z_kN", "bolt_force_kN", "bolt_moment_interface_kNm", "bolt_stress_axial_MPa"}
+func historyColumns() []string {
+	return []string{"stage", "Z_kN", "bolt_force_kN", "bolt_moment_interface_kNm", "bolt_stress_axial_MPa"}
+}
 
 // feFunction reads the FE bolt-force function of a run: the last preload
 // row, then the tension rows while Z rises.
@@ -223,9 +225,9 @@ func readBoltFunction(r io.Reader) (z, fs, ms []float64, as float64, err error) 
 	for i, h := range head {
 		col[h] = i
 	}
-	for _, c := range historyColumns {
+	for _, c := range historyColumns() {
 		if _, ok := col[c]; !ok {
-			return nil, nil, nil, 0, fmt.Errorf("header: column %q missing (want %s)", c, strings.Join(historyColumns, ", "))
+			return nil, nil, nil, 0, fmt.Errorf("header: column %q missing (want %s)", c, strings.Join(historyColumns(), ", "))
 		}
 	}
 	var rows [][5]float64
@@ -239,7 +241,7 @@ func readBoltFunction(r io.Reader) (z, fs, ms []float64, as float64, err error) 
 		}
 		line, _ := cr.FieldPos(0)
 		var v [5]float64
-		for k, c := range historyColumns {
+		for k, c := range historyColumns() {
 			x, err := strconv.ParseFloat(rec[col[c]], 64)
 			if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
 				return nil, nil, nil, 0, fmt.Errorf("line %d: %s = %q: must be a finite number", line, c, rec[col[c]])
