@@ -13,35 +13,41 @@ import (
 )
 
 // Segment is one bolt segment turned into a finite-element model, ready to
-// run.
-type Segment = segment
+// run (the analysis's own state is the unexported segment of analysis.go).
+type Segment struct{ g *segment }
 
 // Build meshes the joint of a valid model and sets up the finite-element
 // model (supports, ring springs, the bolt's tie, the contact pairs, the
 // loaded edge) and the hand methods beside it.
-func Build(spec *modelfile.Spec) (*Segment, error) { return buildSegment(spec, spec.Derive()) }
+func Build(spec *modelfile.Spec) (*Segment, error) {
+	g, err := buildSegment(spec, spec.Derive())
+	if err != nil {
+		return nil, err
+	}
+	return &Segment{g}, nil
+}
 
 // Spec is the model the segment was built from; do not modify it.
-func (g *segment) Spec() *modelfile.Spec { return g.spec }
+func (s *Segment) Spec() *modelfile.Spec { return s.g.spec }
 
 // Derived are the model's derived quantities.
-func (g *segment) Derived() modelfile.Derived { return g.der }
+func (s *Segment) Derived() modelfile.Derived { return s.g.der }
 
 // Mesh is the strip model's mesh.
-func (g *segment) Mesh() *mesh.Mesh { return g.mesh }
+func (s *Segment) Mesh() *mesh.Mesh { return s.g.mesh }
 
 // Model is the finite-element model.
-func (g *segment) Model() *fem.Model { return g.model }
+func (s *Segment) Model() *fem.Model { return s.g.model }
 
 // Hand are the hand methods' results for the joint.
-func (g *segment) Hand() handcalc.Results { return g.hand }
+func (s *Segment) Hand() handcalc.Results { return s.g.hand }
 
 // Zones are the contact zones of the flange face whose contact force the
 // history records (Row.ZoneForce, in this order): the model's
 // contact.zones, or the whole face as one zone.
-func (g *segment) Zones() []Zone {
-	out := make([]Zone, len(g.zones))
-	for i, z := range g.zones {
+func (s *Segment) Zones() []Zone {
+	out := make([]Zone, len(s.g.zones))
+	for i, z := range s.g.zones {
 		out[i] = Zone{Name: z.name, From: z.x0, To: z.x1}
 	}
 	return out
@@ -54,10 +60,10 @@ type Zone struct {
 }
 
 // Penalty is the contact penalty stiffness, MPa/mm.
-func (g *segment) Penalty() float64 { return g.penalty }
+func (s *Segment) Penalty() float64 { return s.g.penalty }
 
 // SliceLength is the length of the bolt slice the preload shortens, mm.
-func (g *segment) SliceLength() float64 { return g.slice }
+func (s *Segment) SliceLength() float64 { return s.g.slice }
 
 // Options are the choices of a run that do not come from the model file.
 // Every callback may be nil; they are called from the goroutine that runs.
@@ -123,13 +129,14 @@ func Run(ctx context.Context, spec *modelfile.Spec, opt Options) (*Result, error
 }
 
 // Run analyses the segment, as Run does. A Segment runs once.
-func (g *segment) Run(ctx context.Context, opt Options) (*Result, error) {
+func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
+	g := s.g
 	a, err := g.analyse(analyseOptions{inspect: opt.Inspect, log: opt.Log, progress: opt.Progress, keep: opt.Keep,
 		stop: ctx.Err})
 	if err != nil {
 		return nil, err
 	}
-	r := &Result{Segment: g, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure,
+	r := &Result{Segment: s, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure,
 		Timing: a.timing, Equations: a.equation, Figures: jointFigures(g, a)}
 	for _, st := range a.states {
 		r.States = append(r.States, State{Label: st.label, Row: st.row, Solution: st.solution, Contacts: st.contacts,
