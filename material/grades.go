@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"strings"
+
+	"flangeseg/material/bolt"
 )
 
 // Strength is what a built-in grade gives the curve: yield and tensile
@@ -135,57 +137,36 @@ func (v BoltValues) String() string {
 	return fmt.Sprintf("bolt values(%d)", int(v))
 }
 
-// boltRow is one property class.
-type boltRow struct {
-	name      string
-	rm, rp, a float64 // ISO 898-1 minimum R_m, R_p0.2 (MPa), elongation after fracture A
-	fub, fyb  float64 // nominal values
-}
-
-// boltTable: ISO 898-1 minimum values (from memory; for 8.8 those of
-// d > 16 mm) and the nominal values of EN 1993-1-8 Table 3.1. That table
-// has no class 12.9; its nominal values are those the designation states
-// (R_m,nom = 12·100, R_p0.2,nom = 0.9·R_m,nom, as ISO 898-1 lists them).
-func boltTable() []boltRow {
-	return []boltRow{
-		{"8.8", 830, 660, 0.12, 800, 640},
-		{"10.9", 1040, 940, 0.09, 1000, 900},
-		{"12.9", 1220, 1100, 0.08, 1200, 1080},
-	}
-}
-
 // BoltClasses lists the built-in property classes.
-func BoltClasses() []string {
-	var c []string
-	for _, r := range boltTable() {
-		c = append(c, r.name)
-	}
-	return c
-}
+func BoltClasses() []string { return bolt.Classes() }
 
 // BoltStrength is the strength of a bolt property class ("8.8", "10.9",
-// "12.9") with the values v.
+// "12.9") with the values v: the ISO 898-1 minimum values (for 8.8 those
+// of d > 16 mm, the sizes of flange bolts) or the nominal values of
+// EN 1993-1-8 Table 3.1, both from package material/bolt.
 //
 // Quenched and tempered bolt steel has no yield plateau: the curve hardens
 // from the yield point to R_m. ISO 898-1 specifies no uniform elongation;
 // it is taken as half the minimum elongation after fracture A, the rest of
 // A being the neck's share (engineering judgement).
 func BoltStrength(class string, v BoltValues) (Strength, error) {
-	for _, r := range boltTable() {
-		if r.name != class {
-			continue
-		}
-		s := Strength{Name: r.name, Fy: r.rp, Fu: r.rm, Uniform: r.a / 2, Elongation: r.a}
-		switch v {
-		case BoltMinimum:
-		case BoltNominal:
-			s.Fy, s.Fu = r.fyb, r.fub
-		default:
-			return Strength{}, fmt.Errorf("material: bolt class %s: values %v: not known", class, v)
-		}
-		return s, nil
+	a, err := bolt.MinimumElongation(class)
+	if err != nil {
+		return Strength{}, fmt.Errorf("material: bolt property class %q: not known (known: %s)", class, strings.Join(BoltClasses(), ", "))
 	}
-	return Strength{}, fmt.Errorf("material: bolt property class %q: not known (known: %s)", class, strings.Join(BoltClasses(), ", "))
+	var g bolt.Grade
+	switch v {
+	case BoltMinimum:
+		g, err = bolt.MinimumGrade(class, math.Inf(1))
+	case BoltNominal:
+		g, err = bolt.NominalGrade(class)
+	default:
+		return Strength{}, fmt.Errorf("material: bolt class %s: values %v: not known", class, v)
+	}
+	if err != nil {
+		return Strength{}, fmt.Errorf("material: %w", err)
+	}
+	return Strength{Name: class, Fy: g.Fyb, Fu: g.Fub, Uniform: a / 2, Elongation: a}, nil
 }
 
 // curveSteps is the number of chords of the hardening branch.

@@ -5,41 +5,6 @@ import (
 	"testing"
 )
 
-// BenchmarkDemo runs the analysis of both demo variants (default mesh,
-// elastic, 40 increments) one after the other without writing files, for
-// the time split; run it with -benchtime 1x. The reported metrics are per
-// run of both variants.
-func BenchmarkDemo(b *testing.B) {
-	for i := 0; i < b.N; i++ {
-		iterations, equations := 0, 0
-		for _, m := range demoModels() {
-			spec, err := decodeSpec(m.Data)
-			if err != nil {
-				b.Fatal(err)
-			}
-			g, err := buildSegment(spec, spec.derive())
-			if err != nil {
-				b.Fatal(err)
-			}
-			res, err := g.analyse(analyseOptions{})
-			if err != nil || res.failure != nil {
-				b.Fatal(err, res.failure)
-			}
-			iterations += res.timing.Iterations
-			equations = max(equations, res.equation)
-			b.ReportMetric(res.timing.Factorization.Seconds(), m.Name+"-factor-s")
-			b.ReportMetric(res.timing.Assembly.Seconds(), m.Name+"-assembly-s")
-			b.ReportMetric(res.timing.Contact.Seconds(), m.Name+"-contact-s")
-			b.ReportMetric(res.timing.Solve.Seconds(), m.Name+"-solve-s")
-			b.ReportMetric(float64(res.timing.Factorizations), m.Name+"-factorizations")
-			b.ReportMetric(float64(res.timing.KrylovSteps), m.Name+"-gmres-steps")
-			b.ReportMetric(float64(res.timing.Iterations), m.Name+"-iterations")
-		}
-		b.ReportMetric(float64(iterations), "newton-iterations")
-		b.ReportMetric(float64(equations), "equations")
-	}
-}
-
 // BenchmarkDemoCommand is `flangeseg demo -o DIR` end to end: both
 // variants side by side, every output file written.
 func BenchmarkDemoCommand(b *testing.B) {
@@ -47,28 +12,5 @@ func BenchmarkDemoCommand(b *testing.B) {
 		if code := run([]string{"demo", "-o", b.TempDir()}, io.Discard, io.Discard); code != exitOK {
 			b.Fatalf("demo exit code %d", code)
 		}
-	}
-}
-
-// BenchmarkFailure is the flat demo joint loaded towards failure:
-// elastoplastic materials, large deformation, contact, 48 increments to
-// 6 mm, no file output. Run it with -benchtime 1x.
-func BenchmarkFailure(b *testing.B) {
-	for i := 0; i < b.N; i++ {
-		spec, err := decodeSpec(demoModels()[0].Data)
-		if err != nil {
-			b.Fatal(err)
-		}
-		spec.Analysis.Materials, spec.Analysis.LargeDeformation = elastoplastic, true
-		spec.Load.MaxDisplacement, spec.Load.Increments = 6, 48
-		g, res := analyseSpec(b, spec)
-		tm := res.timing
-		b.ReportMetric(float64(len(res.rows)-1), "increments")
-		b.ReportMetric(float64(tm.Iterations)/float64(len(res.rows)-1), "iterations/increment")
-		b.ReportMetric(tm.Assembly.Seconds(), "assembly-s")
-		b.ReportMetric(tm.Factorization.Seconds(), "factor-s")
-		b.ReportMetric(tm.Solve.Seconds(), "solve-s")
-		b.ReportMetric(tm.Contact.Seconds(), "contact-s")
-		b.ReportMetric(figures(g, res).PeakLoadKN, "peak-kN")
 	}
 }

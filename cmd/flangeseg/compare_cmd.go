@@ -1,16 +1,14 @@
 package main
 
 import (
-	"encoding/csv"
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
-	"strconv"
 	"strings"
 
-	"flangeseg/post"
+	"flangeseg/post/note"
+	"flangeseg/post/results"
 )
 
 func runCompare(args []string, stdout, stderr io.Writer) int {
@@ -55,11 +53,15 @@ Flags:
 		return code
 	}
 	compareTable(stdout, names, sums)
-	if err := writeCompareReport(*outDir, names, jobs, sums); err != nil {
+	if err := note.WriteCompare(*outDir, names, jobs, sums); err != nil {
 		fmt.Fprintf(stderr, "flangeseg compare: writing the report: %v\n", err)
 		return exitAnalysis
 	}
-	if err := writeComparison(*outDir, names, jobs, sums); err != nil {
+	paths, dirs := make([]string, len(jobs)), make([]string, len(jobs))
+	for i, j := range jobs {
+		paths[i], dirs[i] = j.Path, j.Dir
+	}
+	if err := results.WriteComparison(*outDir, names, paths, dirs, sums); err != nil {
 		fmt.Fprintf(stderr, "flangeseg compare: writing the comparison: %v\n", err)
 		return exitAnalysis
 	}
@@ -69,8 +71,8 @@ Flags:
 
 // compareJobs loads every model (all errors are reported before any run)
 // and gives each a run directory named after its file.
-func compareJobs(paths []string, dir string, stderr io.Writer) ([]modelJob, []string, bool) {
-	var jobs []modelJob
+func compareJobs(paths []string, dir string, stderr io.Writer) ([]note.ModelJob, []string, bool) {
+	var jobs []note.ModelJob
 	var names []string
 	used := map[string]int{}
 	ok := true
@@ -89,94 +91,7 @@ func compareJobs(paths []string, dir string, stderr io.Writer) ([]modelJob, []st
 			name = fmt.Sprintf("%s_%d", name, n)
 		}
 		names = append(names, name)
-		jobs = append(jobs, modelJob{spec: spec, path: path, dir: filepath.Join(dir, name)})
+		jobs = append(jobs, note.ModelJob{Spec: spec, Path: path, Dir: filepath.Join(dir, name)})
 	}
 	return jobs, names, ok
-}
-
-// writeComparison writes the table as CSV (one row per model) and the
-// overlaid curves.
-func writeComparison(dir string, names []string, jobs []modelJob, sums []summary) error {
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return err
-	}
-	quantities := comparedQuantities()
-	err := post.WriteFileAtomic(filepath.Join(dir, "comparison.csv"), func(w io.Writer) error {
-		cw := csv.NewWriter(w)
-		head := []string{"model", "file"}
-		for _, q := range quantities {
-			head = append(head, q.column, "ratio_"+q.column)
-		}
-		head = append(head, "failure_mechanism")
-		if err := cw.Write(head); err != nil {
-			return err
-		}
-		for i, s := range sums {
-			row := []string{names[i], jobs[i].path}
-			for _, q := range quantities {
-				v, base := q.get(s), q.get(sums[0])
-				ratio := ""
-				if base != 0 {
-					ratio = strconv.FormatFloat(v/base, 'g', 6, 64)
-				}
-				row = append(row, strconv.FormatFloat(v, 'g', 10, 64), ratio)
-			}
-			row = append(row, s.Joint.FailureLocation)
-			if err := cw.Write(row); err != nil {
-				return err
-			}
-		}
-		cw.Flush()
-		return cw.Error()
-	})
-	if err != nil {
-		return err
-	}
-	fsz := post.Plot{Title: "Bolt force against segment force", XLabel: "Z [kN]", YLabel: "F_s [kN]"}
-	zu := post.Plot{Title: "Segment force against displacement", XLabel: "u [mm]", YLabel: "Z [kN]"}
-	for i, j := range jobs {
-		h, err := readHistoryColumns(filepath.Join(j.dir, "history.csv"))
-		if err != nil {
-			return err
-		}
-		fsz.Series = append(fsz.Series, post.Series{Name: names[i], X: h["Z_kN"], Y: h["bolt_force_kN"]})
-		zu.Series = append(zu.Series, post.Series{Name: names[i], X: h["u_mm"], Y: h["Z_kN"]})
-	}
-	if err := post.WritePlot(filepath.Join(dir, "compare_Fs_Z"), fsz); err != nil {
-		return err
-	}
-	return post.WritePlot(filepath.Join(dir, "compare_Z_u"), zu)
-}
-
-// readHistoryColumns reads the numeric columns of a run's history.csv.
-func readHistoryColumns(path string) (map[string][]float64, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	records, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	if len(records) < 2 {
-		return nil, fmt.Errorf("%s: no rows", path)
-	}
-	cols := map[string][]float64{}
-	for _, r := range records[1:] {
-		for c, name := range records[0] {
-			if c >= len(r) {
-				continue
-			}
-			if v, err := strconv.ParseFloat(r[c], 64); err == nil {
-				cols[name] = append(cols[name], v)
-			}
-		}
-	}
-	for _, need := range []string{"Z_kN", "u_mm", "bolt_force_kN"} {
-		if len(cols[need]) != len(records)-1 {
-			return nil, fmt.Errorf("%s: column %s missing or incomplete", path, need)
-		}
-	}
-	return cols, nil
 }

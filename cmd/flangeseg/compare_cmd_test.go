@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"flangeseg/fem/segment/modelfile"
 )
 
 // coarseModelFile writes demo model i with a coarse mesh and few
@@ -100,15 +102,15 @@ func TestCompareBadInput(t *testing.T) {
 // The demo's analysis to failure is the flat face with yielding and large
 // deformation, still a valid model.
 func TestToFailureVariant(t *testing.T) {
-	s, err := decodeSpec(demoModels()[0].Data)
+	s, err := modelfile.Decode(demoModels()[0].Data)
 	if err != nil {
 		t.Fatal(err)
 	}
 	toFailureVariant(s)
-	if s.Analysis.Materials != elastoplastic || !s.Analysis.LargeDeformation || !(s.Load.MaxDisplacement >= 20) {
+	if s.Analysis.Materials != modelfile.Elastoplastic || !s.Analysis.LargeDeformation || !(s.Load.MaxDisplacement >= 20) {
 		t.Errorf("variant %+v, %+v", s.Analysis, s.Load)
 	}
-	if err := s.validate(); err != nil {
+	if err := s.Validate(); err != nil {
 		t.Error(err)
 	}
 }

@@ -1,13 +1,15 @@
 package main
 
 import (
-	"encoding/json"
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"text/tabwriter"
+
+	"flangeseg/fem/segment/modelfile"
+	"flangeseg/post/note"
+	"flangeseg/post/results"
 )
 
 func runDemo(args []string, stdout, stderr io.Writer) int {
@@ -44,13 +46,13 @@ Flags:
 	}
 	models := demoModels()
 	if *toFailure {
-		spec, err := decodeSpec(models[0].Data)
+		spec, err := modelfile.Decode(models[0].Data)
 		if err != nil {
 			fmt.Fprintf(stderr, "demo: %v\n", err)
 			return exitBadInput
 		}
 		toFailureVariant(spec)
-		return runModel(spec, "flat.toml, to failure", filepath.Join(*outDir, "flat_to_failure"), runFlags{verbose: *verbose}, stdout, stderr)
+		return runModel(note.ModelJob{Spec: spec, Path: "flat.toml, to failure", Dir: filepath.Join(*outDir, "flat_to_failure")}, runFlags{verbose: *verbose}, stdout, stderr)
 	}
 	if *printModel {
 		for _, m := range models {
@@ -58,21 +60,21 @@ Flags:
 		}
 		return exitOK
 	}
-	jobs := make([]modelJob, len(models))
+	jobs := make([]note.ModelJob, len(models))
 	for i, m := range models {
-		spec, err := decodeSpec(m.Data)
+		spec, err := modelfile.Decode(m.Data)
 		if err != nil {
 			fmt.Fprintf(stderr, "demo %s: %v\n", m.Name, err)
 			return exitBadInput
 		}
-		jobs[i] = modelJob{spec: spec, path: m.Name + ".toml", dir: filepath.Join(*outDir, m.Name)}
+		jobs[i] = note.ModelJob{Spec: spec, Path: m.Name + ".toml", Dir: filepath.Join(*outDir, m.Name), Text: m.Data}
 	}
 	sums, code := runModels(jobs, "demo", *verbose, stdout, stderr)
 	if code != exitOK {
 		return code
 	}
 	compareTable(stdout, []string{"flat face", "defined bands"}, sums)
-	if err := writeCompareReport(*outDir, []string{"flat face", "defined bands"}, jobs, sums); err != nil {
+	if err := note.WriteCompare(*outDir, []string{"flat face", "defined bands"}, jobs, sums); err != nil {
 		fmt.Fprintf(stderr, "flangeseg demo: writing the report: %v\n", err)
 		return exitAnalysis
 	}
@@ -82,50 +84,15 @@ Flags:
 // toFailureVariant turns the flat-face demo into its analysis to failure:
 // yielding, large deformation, and a displacement well past the bolt's
 // rupture.
-func toFailureVariant(s *Spec) {
+func toFailureVariant(s *modelfile.Spec) {
 	s.Title += ", to failure"
-	s.Analysis.Materials, s.Analysis.LargeDeformation = elastoplastic, true
+	s.Analysis.Materials, s.Analysis.LargeDeformation = modelfile.Elastoplastic, true
 	s.Load.MaxDisplacement, s.Load.Increments = 30, 60
-}
-
-func readSummary(path string) (summary, error) {
-	var s summary
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return s, err
-	}
-	return s, json.Unmarshal(data, &s)
-}
-
-// comparedQuantity is one row of a comparison: a joint figure of a run.
-type comparedQuantity struct {
-	name, column string // table text with unit; CSV column name
-	get          func(s summary) float64
-}
-
-func comparedQuantities() []comparedQuantity {
-	ptr := func(p *float64) float64 {
-		if p == nil {
-			return 0
-		}
-		return *p
-	}
-	return []comparedQuantity{
-		{"stiffness at Z = 0 [kN/mm]", "stiffness_tangent_at_zero_kN_per_mm", func(s summary) float64 { return s.Joint.StiffnessTangentZero }},
-		{"secant stiffness to reference [kN/mm]", "stiffness_secant_to_reference_kN_per_mm", func(s summary) float64 { return ptr(s.Joint.StiffnessToReference) }},
-		{"joint alone, secant to reference [kN/mm]", "joint_stiffness_secant_to_reference_kN_per_mm", func(s summary) float64 { return ptr(s.Joint.JointStiffnessReference) }},
-		{"load factor at Z = 0 [-]", "load_factor_tangent_at_zero", func(s summary) float64 { return s.Joint.LoadFactorTangentZero }},
-		{"load factor, secant to reference [-]", "load_factor_secant_to_reference", func(s summary) float64 { return ptr(s.Joint.LoadFactorToReference) }},
-		{"opening load [kN]", "opening_load_kN", func(s summary) float64 { return ptr(s.Joint.OpeningLoadKN) }},
-		{"decompression load [kN]", "decompression_load_kN", func(s summary) float64 { return ptr(s.Joint.DecompressionKN) }},
-		{"peak segment force [kN]", "peak_load_kN", func(s summary) float64 { return s.Joint.PeakLoadKN }},
-		{"displacement at the end [mm]", "displacement_at_end_mm", func(s summary) float64 { return s.Joint.DisplacementEndMM }},
-	}
 }
 
 // compareTable prints the joint figures of several runs with their ratio
 // to the first.
-func compareTable(w io.Writer, names []string, sums []summary) {
+func compareTable(w io.Writer, names []string, sums []results.Summary) {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprint(tw, "quantity\t")
 	for i, n := range names {
@@ -135,11 +102,11 @@ func compareTable(w io.Writer, names []string, sums []summary) {
 		}
 	}
 	fmt.Fprintln(tw)
-	for _, r := range comparedQuantities() {
-		fmt.Fprintf(tw, "%s\t", r.name)
-		base := r.get(sums[0])
+	for _, r := range results.ComparedFigures() {
+		fmt.Fprintf(tw, "%s\t", r.Label)
+		base := r.Value(sums[0])
 		for i, s := range sums {
-			v := r.get(s)
+			v := r.Value(s)
 			fmt.Fprintf(tw, "%.3g\t", v)
 			if i > 0 {
 				if base != 0 {

@@ -1,8 +1,11 @@
 // Command flangeseg is a refined, nonlinear 2D finite-element check of one
 // bolt segment of a bolted ring-flange (L-flange) joint in a tubular tower.
-// It owns the application: the model file (Spec) and its validation, the
-// pipeline model file → mesh → solve → output files, the subcommands
-// (demo, run, mesh, validate, verify, version), progress and exit codes.
+// It parses flags, prints to the terminal, shows progress and maps errors
+// to exit codes; every subcommand (compare, demo, fatigue, hand, mesh,
+// run, validate, verify, version) calls the library packages: the model
+// file (fem/segment/modelfile), the segment analysis (fem/segment), the
+// run directory (post/results), the calculation note (post/note), the
+// hand methods (post/handcalc) and the fatigue job (post/fatigue/assess).
 // See `flangeseg help`.
 //
 // flangeseg is a design aid: its results must be checked against the

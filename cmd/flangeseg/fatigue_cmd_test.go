@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"flangeseg/post/fatigue/assess"
 )
 
 // fatigueRun writes a synthetic run directory for the flat demo model: a
@@ -16,7 +18,7 @@ import (
 func fatigueRun(t *testing.T, slope, moment, zmax float64) (dir string, as float64) {
 	t.Helper()
 	spec := demoSpec(t, "flat")
-	as = spec.derive().StressArea
+	as = spec.Derive().StressArea
 	dir = t.TempDir()
 	var b strings.Builder
 	b.WriteString("increment,stage,Z_kN,u_mm,bolt_force_kN,bolt_moment_interface_kNm,bolt_moment_head_kNm,bolt_stress_axial_MPa,bolt_stress_bending_MPa,gap_edge_mm\n")
@@ -46,13 +48,13 @@ func writeFile(t *testing.T, dir, name, text string) string {
 	return p
 }
 
-func readFatigueSummary(t *testing.T, dir string) fatigueSummary {
+func readFatigueSummary(t *testing.T, dir string) assess.Summary {
 	t.Helper()
 	data, err := os.ReadFile(filepath.Join(dir, "fatigue_summary.json"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	var s fatigueSummary
+	var s assess.Summary
 	if err := json.Unmarshal(data, &s); err != nil {
 		t.Fatal(err)
 	}

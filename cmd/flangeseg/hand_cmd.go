@@ -5,22 +5,17 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"math"
 	"text/tabwriter"
 
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post/handcalc"
 )
-
-// defaultBorderline is the margin around a utilisation of 1.0 within which
-// a hand check is called borderline: the refined analysis is worth its
-// cost there.
-const defaultBorderline = 0.10
 
 func runHand(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("hand", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	asJSON := fs.Bool("json", false, "print the results as JSON instead of tables")
-	margin := fs.Float64("margin", defaultBorderline, "a utilisation within 1 ± `M` of the design force counts as borderline")
+	margin := fs.Float64("margin", handcalc.DefaultBorderline, "a utilisation within 1 ± `M` of the design force counts as borderline")
 	fs.Usage = func() {
 		fmt.Fprintf(stderr, `Usage: flangeseg hand MODEL.toml [--json] [--margin M]
 
@@ -39,7 +34,7 @@ of each method, and "borderline" when a utilisation lies within 1 ± M
 %s
 
 Flags:
-`, defaultBorderline, caution)
+`, handcalc.DefaultBorderline, caution)
 		fs.PrintDefaults()
 	}
 	if err := fs.Parse(reorderFlags(fs, args)); err != nil {
@@ -50,7 +45,7 @@ Flags:
 		return exitBadInput
 	}
 	if !(*margin >= 0 && *margin < 1) {
-		fmt.Fprintf(stderr, "flangeseg hand: --margin = %s: must lie in [0, 1)\n", fnum(*margin))
+		fmt.Fprintf(stderr, "flangeseg hand: --margin = %s: must lie in [0, 1)\n", modelfile.FormatNumber(*margin))
 		return exitBadInput
 	}
 	path := fs.Arg(0)
@@ -58,19 +53,19 @@ Flags:
 	if !ok {
 		return exitBadInput
 	}
-	d := s.derive()
-	r, err := handcalc.Analyze(s.handJoint(d), handcalc.DefaultParams())
+	d := s.Derive()
+	r, err := handcalc.Analyze(s.HandJoint(d), handcalc.DefaultParams())
 	if err != nil {
 		fmt.Fprintf(stderr, "%s: hand methods: %v\n", path, err)
 		return exitBadInput
 	}
-	v := handVerdict(r, s.Load.DesignForce, *margin)
+	v := handcalc.CheckDesignForce(r, s.Load.DesignForce, *margin)
 	if *asJSON {
 		out := struct {
-			Model   string           `json:"model"`
-			Caution string           `json:"caution"`
-			Hand    handcalc.Results `json:"hand_methods"`
-			Verdict *verdict         `json:"verdict,omitempty"`
+			Model   string            `json:"model"`
+			Caution string            `json:"caution"`
+			Hand    handcalc.Results  `json:"hand_methods"`
+			Verdict *handcalc.Verdict `json:"verdict,omitempty"`
 		}{path, caution, r, v}
 		enc := json.NewEncoder(stdout)
 		enc.SetIndent("", "  ")
@@ -84,71 +79,13 @@ Flags:
 	return exitOK
 }
 
-// verdict is the design check of the hand methods against [load]
-// design_force.
-type verdict struct {
-	DesignForceKN float64       `json:"design_force_kN"`
-	Margin        float64       `json:"borderline_margin"`
-	Lines         []verdictLine `json:"methods"`
-	Borderline    bool          `json:"borderline"` // any method within 1 ± margin
-	Exceeded      bool          `json:"exceeded"`   // any method above 1
-}
-
-type verdictLine struct {
-	Method      string  `json:"method"`
-	CapacityKN  float64 `json:"capacity_kN"`
-	Utilisation float64 `json:"utilisation"`
-	Mode        string  `json:"governing_mode"`
-	Status      string  `json:"status"` // "ok", "borderline" or "exceeded"
-}
-
-// handVerdict compares the design force with the design-basis ultimate
-// loads of both mechanism methods; nil without a design force.
-func handVerdict(r handcalc.Results, design *float64, margin float64) *verdict {
-	if design == nil {
-		return nil
-	}
-	u, ok := r.UltimateOn(handcalc.BasisDesign)
-	if !ok {
-		return nil
-	}
-	v := &verdict{DesignForceKN: *design / 1e3, Margin: margin}
-	for _, m := range []struct {
-		name string
-		mech handcalc.Mechanisms
-	}{
-		{"plastic hinges, Petersen (design, with k2)", u.Petersen},
-		{"plastic hinges with M–N interaction, Seidel (design, with k2)", u.Seidel},
-	} {
-		l := verdictLine{Method: m.name, CapacityKN: m.mech.Z / 1e3, Mode: string(m.mech.Governing)}
-		l.Utilisation = *design / m.mech.Z
-		l.Status = utilisationStatus(l.Utilisation, margin)
-		v.Borderline = v.Borderline || l.Status == "borderline"
-		v.Exceeded = v.Exceeded || l.Utilisation > 1
-		v.Lines = append(v.Lines, l)
-	}
-	return v
-}
-
-// utilisationStatus names a utilisation: borderline within 1 ± margin,
-// else ok below and exceeded above.
-func utilisationStatus(eta, margin float64) string {
-	switch {
-	case math.Abs(eta-1) <= margin+1e-12: // inclusive, whatever the rounding of 1 ± margin
-		return "borderline"
-	case eta < 1:
-		return "ok"
-	}
-	return "exceeded"
-}
-
-func printHand(w io.Writer, s *Spec, d Derived, r handcalc.Results, v *verdict) {
+func printHand(w io.Writer, s *modelfile.Spec, d modelfile.Derived, r handcalc.Results, v *handcalc.Verdict) {
 	b := r.Bolt
 	fmt.Fprintf(w, "%s — hand methods\n\n", s.Title)
-	fmt.Fprintf(w, "Bolt %s %s (EN 1993-1-8 nominal f_ub = %s MPa, f_yb = %s MPa)\n", s.Bolt.Size, s.Bolt.Grade, fnum(b.Nominal.Fub), fnum(b.Nominal.Fyb))
+	fmt.Fprintf(w, "Bolt %s %s (EN 1993-1-8 nominal f_ub = %s MPa, f_yb = %s MPa)\n", s.Bolt.Size, s.Bolt.Grade, modelfile.FormatNumber(b.Nominal.Fub), modelfile.FormatNumber(b.Nominal.Fyb))
 	fmt.Fprintf(w, "  stress area A_s          %8.1f mm²  (ISO 898-1)\n", b.StressArea)
 	fmt.Fprintf(w, "  F_t,Rd = k2·f_ub·A_s/γM2 %8.1f kN   (EN 1993-1-8 Table 3.4, k2 = %s, γM2 = %s)\n",
-		b.TensionResistance/1e3, fnum(r.Params.K2), fnum(r.Params.GammaM2))
+		b.TensionResistance/1e3, modelfile.FormatNumber(r.Params.K2), modelfile.FormatNumber(r.Params.GammaM2))
 	fmt.Fprintf(w, "  F_p,C = 0.7·f_ub·A_s     %8.1f kN   (EN 1993-1-8, 3.9)\n", b.PreloadForce/1e3)
 	fmt.Fprintf(w, "  preload used by the bolt-force models F_p %.1f kN\n\n", r.JointDiagram.Preload/1e3)
 
@@ -196,7 +133,7 @@ func handSamples(end float64) []float64 {
 	return z
 }
 
-func printVerdict(w io.Writer, v *verdict) {
+func printVerdict(w io.Writer, v *handcalc.Verdict) {
 	if v == nil {
 		fmt.Fprintln(w, "Verdict: no [load] design_force in the model, so no utilisation.")
 		fmt.Fprintln(w)

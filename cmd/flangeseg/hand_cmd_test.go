@@ -7,21 +7,9 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-)
 
-func TestUtilisationStatus(t *testing.T) {
-	for _, c := range []struct {
-		eta  float64
-		want string
-	}{
-		{0.5, "ok"}, {0.899, "ok"}, {0.9, "borderline"}, {1.0, "borderline"},
-		{1.1, "borderline"}, {1.101, "exceeded"}, {2, "exceeded"},
-	} {
-		if got := utilisationStatus(c.eta, 0.1); got != c.want {
-			t.Errorf("utilisation %g: %q, want %q", c.eta, got, c.want)
-		}
-	}
-}
+	"flangeseg/post/handcalc"
+)
 
 // The hand command on the demo with a design force: the verdict's
 // utilisation is Z_Ed over the design-basis mechanism load it prints.
@@ -36,7 +24,7 @@ func TestHandCommand(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errOut.String())
 	}
 	var got struct {
-		Verdict *verdict `json:"verdict"`
+		Verdict *handcalc.Verdict `json:"verdict"`
 	}
 	if err := json.Unmarshal(out.Bytes(), &got); err != nil {
 		t.Fatal(err)
@@ -48,7 +36,7 @@ func TestHandCommand(t *testing.T) {
 		if want := 480 / l.CapacityKN; abs(l.Utilisation-want) > 1e-9 {
 			t.Errorf("%s: utilisation %g, want Z_Ed/Z_u = %g", l.Method, l.Utilisation, want)
 		}
-		if l.Status != utilisationStatus(l.Utilisation, defaultBorderline) {
+		if l.Status != handcalc.UtilisationStatus(l.Utilisation, handcalc.DefaultBorderline) {
 			t.Errorf("%s: status %q for utilisation %g", l.Method, l.Status, l.Utilisation)
 		}
 	}

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+
+	"flangeseg/post"
 )
 
 // Exit codes.
@@ -14,11 +16,8 @@ const (
 	exitAnalysis = 3 // the analysis could not be completed
 )
 
-// caution is printed by help and written into reports: results can make an
-// unsafe joint look safe if they are used unchecked.
-const caution = `flangeseg is a design aid. Its results must be checked against the governing
-codes (e.g. EN 1993-1-8, EN 1993-1-9) and signed off under local codes and
-licensed engineering practice before any joint is built or accepted.`
+// caution is printed by help and written into reports (post.Caution).
+const caution = post.Caution
 
 type command struct {
 	name    string

@@ -7,6 +7,8 @@ import (
 	"os"
 	"path/filepath"
 
+	"flangeseg/fem/segment"
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post"
 )
 
@@ -36,12 +38,12 @@ Flags:
 		return exitBadInput
 	}
 	path := fs.Arg(0)
-	spec, err := loadSpec(path)
+	spec, err := modelfile.Load(path)
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitBadInput
 	}
-	seg, err := buildSegment(spec, spec.derive())
+	seg, err := segment.Build(spec)
 	if err != nil {
 		fmt.Fprintf(stderr, "%s: %v\n", path, err)
 		return exitBadInput
@@ -54,14 +56,14 @@ Flags:
 		fmt.Fprintf(stderr, "flangeseg mesh: %v\n", err)
 		return exitBadInput
 	}
-	m := seg.mesh
-	seg.model.Number()
+	m := seg.Mesh()
+	seg.Model().Number()
 	file := filepath.Join(dir, "mesh.vtu")
 	if err := post.WriteVTU(file, post.GridFromMesh(m), nil, []post.Field{post.RegionField(m)}); err != nil {
 		fmt.Fprintf(stderr, "flangeseg mesh: %v\n", err)
 		return exitAnalysis
 	}
-	fmt.Fprintf(stdout, "%s: %d nodes, %d %v elements, %d equations\n", path, len(m.Nodes), len(m.Elements), m.Kind, seg.model.Equations())
+	fmt.Fprintf(stdout, "%s: %d nodes, %d %v elements, %d equations\n", path, len(m.Nodes), len(m.Elements), m.Kind, seg.Model().Equations())
 	fmt.Fprintln(stdout, "regions (index, name, thickness, material):")
 	for i, r := range m.Regions {
 		fmt.Fprintf(stdout, "  %2d  %-18s %8.2f mm  %s\n", i, r.Name, r.Thickness, r.Material)

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"flag"
 	"fmt"
 	"io"
@@ -11,8 +12,13 @@ import (
 
 	"github.com/schollz/progressbar/v3"
 
-	"flangeseg/fem/sparse"
 	"golang.org/x/term"
+
+	"flangeseg/fem/segment"
+	"flangeseg/fem/segment/modelfile"
+	"flangeseg/fem/sparse"
+	"flangeseg/post/note"
+	"flangeseg/post/results"
 )
 
 func runRun(args []string, stdout, stderr io.Writer) int {
@@ -51,12 +57,12 @@ Flags:
 	if dir == "" {
 		dir = strings.TrimSuffix(filepath.Base(path), ".toml") + "_results"
 	}
-	spec, err := loadSpec(path)
+	spec, err := modelfile.Load(path)
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitBadInput
 	}
-	return runModel(spec, path, dir, runFlags{verbose: *verbose, dump: *dump}, stdout, stderr)
+	return runModel(note.ModelJob{Spec: spec, Path: path, Dir: dir}, runFlags{verbose: *verbose, dump: *dump}, stdout, stderr)
 }
 
 // runFlags are the options of a run that do not come from the model file.
@@ -70,51 +76,54 @@ type runFlags struct {
 
 // runModel runs one valid model and writes its results; it returns the
 // exit code.
-func runModel(spec *Spec, path, dir string, flags runFlags, stdout, stderr io.Writer) int {
-	d := spec.derive()
-	for _, w := range d.Warnings {
+func runModel(job note.ModelJob, flags runFlags, stdout, stderr io.Writer) int {
+	spec, path, dir := job.Spec, job.Path, job.Dir
+	for _, w := range spec.Derive().Warnings {
 		fmt.Fprintf(stderr, "%s: warning: %s\n", path, w)
 	}
-	seg, err := buildSegment(spec, d)
+	seg, err := segment.Build(spec)
 	if err != nil {
 		fmt.Fprintf(stderr, "%s: %v\n", path, err)
 		return exitBadInput
 	}
-	opt := analyseOptions{keep: func(int) bool { return true }}
+	var opt segment.Options
 	if flags.dump != "" {
 		if err := os.MkdirAll(flags.dump, 0o755); err != nil {
 			fmt.Fprintf(stderr, "%s: --dump-matrix: %v\n", path, err)
 			return exitBadInput
 		}
-		opt.inspect = func(k *sparse.Matrix, rhs []float64) error {
+		opt.Inspect = func(k *sparse.Matrix, rhs []float64) error {
 			return dumpSystem(flags.dump, strings.TrimSuffix(filepath.Base(path), ".toml")+" first tangent", k, rhs)
 		}
 	}
 	switch {
 	case flags.verbose:
-		opt.log = func(line string) { fmt.Fprintln(stderr, line) }
+		opt.Log = func(line string) { fmt.Fprintln(stderr, line) }
 	case flags.progress != nil:
-		opt.progress = func(done, _ int) { flags.progress(done) }
+		opt.Progress = func(done, _ int) { flags.progress(done) }
 	default:
 		if bar := progressBar(stderr, spec.Load.Increments, filepath.Base(path)); bar != nil {
-			opt.progress = func(done, _ int) { _ = bar.Set(done) }
+			opt.Progress = func(done, _ int) { _ = bar.Set(done) }
 			defer bar.Finish()
 		}
 	}
 	start := time.Now()
-	res, err := seg.analyse(opt)
+	res, err := seg.Run(context.Background(), opt)
 	if err != nil {
 		fmt.Fprintf(stderr, "%s: analysis: %v\n", path, err)
 		return exitAnalysis
 	}
-	sum, err := writeResults(dir, path, seg, res)
+	sum, err := results.Write(dir, path, res)
+	if err == nil {
+		err = note.WriteRun(dir, path, job.Text, res, sum)
+	}
 	if err != nil {
 		fmt.Fprintf(stderr, "%s: writing results: %v\n", path, err)
 		return exitAnalysis
 	}
 	printSummary(stdout, sum, dir, time.Since(start))
-	if res.failure != nil {
-		fmt.Fprintf(stderr, "%s: the analysis stopped: %v\nresults up to the last converged increment are in %s\n", path, res.failure, dir)
+	if res.Failure != nil {
+		fmt.Fprintf(stderr, "%s: the analysis stopped: %v\nresults up to the last converged increment are in %s\n", path, res.Failure, dir)
 		return exitAnalysis
 	}
 	return exitOK
@@ -174,7 +183,7 @@ func kNPerMMOr(p *float64) string {
 	return fmt.Sprintf("%.0f kN/mm", *p)
 }
 
-func printSummary(w io.Writer, s summary, dir string, took time.Duration) {
+func printSummary(w io.Writer, s results.Summary, dir string, took time.Duration) {
 	j := s.Joint
 	fmt.Fprintf(w, "%s\n", s.Title)
 	fmt.Fprintf(w, "  preload               %.1f kN (target %.1f kN)\n", j.PreloadReachedKN, j.PreloadTargetKN)

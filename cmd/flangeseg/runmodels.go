@@ -7,14 +7,10 @@ import (
 	"path/filepath"
 	"runtime"
 	"sync"
-)
 
-// modelJob is one model of a demo or compare run.
-type modelJob struct {
-	spec *Spec
-	path string // as the user named it, for messages
-	dir  string // its run directory
-}
+	"flangeseg/post/note"
+	"flangeseg/post/results"
+)
 
 // runModels runs valid models side by side, as many at once as there are
 // cores, and returns their summaries in order. Each model's output is held
@@ -22,15 +18,15 @@ type modelJob struct {
 // verbose runs them one by one to keep the iteration logs apart. On a
 // terminal one progress bar counts the increments of all. The exit code is
 // the first failing model's, after every model has run.
-func runModels(jobs []modelJob, label string, verbose bool, stdout, stderr io.Writer) ([]summary, int) {
+func runModels(jobs []note.ModelJob, label string, verbose bool, stdout, stderr io.Writer) ([]results.Summary, int) {
 	type outcome struct {
 		code        int
 		out, errOut bytes.Buffer
 	}
-	results := make([]outcome, len(jobs))
+	outs := make([]outcome, len(jobs))
 	total := 0
 	for _, j := range jobs {
-		total += j.spec.Load.Increments
+		total += j.Spec.Load.Increments
 	}
 	progress := combinedProgress(stderr, total, label)
 	done := make([]int, len(jobs))
@@ -38,7 +34,7 @@ func runModels(jobs []modelJob, label string, verbose bool, stdout, stderr io.Wr
 	var wg sync.WaitGroup
 	slots := make(chan struct{}, max(1, runtime.NumCPU()))
 	for i, j := range jobs {
-		o := &results[i]
+		o := &outs[i]
 		flags := runFlags{verbose: verbose}
 		if progress != nil {
 			flags.progress = func(n int) {
@@ -49,23 +45,23 @@ func runModels(jobs []modelJob, label string, verbose bool, stdout, stderr io.Wr
 			}
 		}
 		if verbose {
-			o.code = runModel(j.spec, j.path, j.dir, flags, &o.out, stderr)
+			o.code = runModel(j, flags, &o.out, stderr)
 			continue
 		}
 		wg.Go(func() {
 			slots <- struct{}{}
 			defer func() { <-slots }()
-			o.code = runModel(j.spec, j.path, j.dir, flags, &o.out, &o.errOut)
+			o.code = runModel(j, flags, &o.out, &o.errOut)
 		})
 	}
 	wg.Wait()
 	if progress != nil {
 		progress(nil)
 	}
-	var sums []summary
+	var sums []results.Summary
 	code := exitOK
 	for i, j := range jobs {
-		o := &results[i]
+		o := &outs[i]
 		stdout.Write(o.out.Bytes())
 		fmt.Fprintln(stdout)
 		stderr.Write(o.errOut.Bytes())
@@ -75,9 +71,9 @@ func runModels(jobs []modelJob, label string, verbose bool, stdout, stderr io.Wr
 			}
 			continue
 		}
-		s, err := readSummary(filepath.Join(j.dir, "summary.json"))
+		s, err := results.ReadSummary(filepath.Join(j.Dir, "summary.json"))
 		if err != nil {
-			fmt.Fprintf(stderr, "%s: %v\n", j.path, err)
+			fmt.Fprintf(stderr, "%s: %v\n", j.Path, err)
 			code = exitAnalysis
 			continue
 		}

@@ -6,11 +6,14 @@ import (
 	"io"
 	"runtime"
 	"runtime/debug"
+
+	"flangeseg/post"
 )
 
-// version is the release of the tool; builds from a checkout add the
-// revision they were built from.
-const version = "0.1.0-dev"
+// version is the release of the tool (post.Version, which the files it
+// writes name); builds from a checkout add the revision they were built
+// from.
+const version = post.Version
 
 func runVersion(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("version", flag.ContinueOnError)

@@ -1,5 +1,6 @@
 // Package handcalc holds the hand methods that flangeseg's finite-element
-// check of an L-flange segment refines: bolt data and code resistances, the
+// check of an L-flange segment refines: code resistances of the bolt (its
+// thread and property-class data are in package material/bolt), the
 // ultimate segment force by plastic-hinge mechanisms, and segment bolt-force
 // models from joint resiliences. Every function is a closed formula of its
 // inputs, which it never modifies; each names its source in its comment and

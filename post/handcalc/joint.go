@@ -3,6 +3,8 @@ package handcalc
 import (
 	"fmt"
 	"math"
+
+	"flangeseg/material/bolt"
 )
 
 // Joint is one bolt segment of an L-flange joint, in mm, N and MPa.
@@ -39,12 +41,12 @@ type Joint struct {
 func (j Joint) ClampLength() float64 { return 2*j.Tf + 2*j.WasherThickness }
 
 // Thread returns the bolt thread: the named coarse thread, or d and P.
-func (j Joint) Thread() (Thread, error) {
+func (j Joint) Thread() (bolt.Thread, error) {
 	if j.Size != "" {
-		return CoarseThread(j.Size)
+		return bolt.CoarseThread(j.Size)
 	}
-	t := Thread{D: j.D, Pitch: j.Pitch}
-	return t, t.valid()
+	t := bolt.Thread{D: j.D, Pitch: j.Pitch}
+	return t, t.Valid()
 }
 
 // Validate reports every field that breaks a rule, each with its value and
@@ -61,16 +63,16 @@ func (j Joint) Validate() error {
 	case j.Size != "" && (j.D != 0 || j.Pitch != 0):
 		v.add("size = %q with d = %g, pitch = %g: give a size or d and pitch, not both", j.Size, j.D, j.Pitch)
 	case j.Size != "":
-		t, err := CoarseThread(j.Size)
+		t, err := bolt.CoarseThread(j.Size)
 		if err != nil {
 			v.add("size = %q: %w", j.Size, err)
 		}
 		d = t.D
 	default:
 		v.check("d", j.D, j.D > 0, "must be > 0 (or give size)")
-		v.check("pitch", j.Pitch, j.Pitch > 0 && j.D-minorDiameterFactor*j.Pitch > 0, "must be > 0 and leave d − 1.2269·P > 0")
+		v.check("pitch", j.Pitch, j.Pitch > 0 && j.D-bolt.MinorDiameterFactor*j.Pitch > 0, "must be > 0 and leave d − 1.2269·P > 0")
 	}
-	if _, err := NominalGrade(j.Grade); err != nil {
+	if _, err := bolt.NominalGrade(j.Grade); err != nil {
 		v.add("grade = %q: must be 8.8, 10.9 or 12.9", j.Grade)
 	}
 	v.check("d_h", j.Hole, j.Hole > d, fmt.Sprintf("must exceed the bolt diameter d = %g", d))
@@ -195,7 +197,7 @@ func segmentHinges(j Joint, p Params, basis Basis) (Hinges, error) {
 	if err != nil {
 		return Hinges{}, err
 	}
-	g, err := NominalGrade(j.Grade)
+	g, err := bolt.NominalGrade(j.Grade)
 	if err != nil {
 		return Hinges{}, err
 	}
@@ -214,13 +216,13 @@ func segmentHinges(j Joint, p Params, basis Basis) (Hinges, error) {
 
 // BoltResults describes the bolt and its code resistances.
 type BoltResults struct {
-	Thread        Thread  `json:"thread"`
-	PitchDiameter float64 `json:"d_2"`  // d₂, mm
-	MinorDiameter float64 `json:"d_3"`  // d₃, mm
-	NominalArea   float64 `json:"area"` // A = π·d²/4, mm²
-	StressArea    float64 `json:"a_s"`  // A_s, mm²
-	Nominal       Grade   `json:"nominal_grade"`
-	Minimum       Grade   `json:"minimum_grade"`
+	Thread        bolt.Thread `json:"thread"`
+	PitchDiameter float64     `json:"d_2"`  // d₂, mm
+	MinorDiameter float64     `json:"d_3"`  // d₃, mm
+	NominalArea   float64     `json:"area"` // A = π·d²/4, mm²
+	StressArea    float64     `json:"a_s"`  // A_s, mm²
+	Nominal       bolt.Grade  `json:"nominal_grade"`
+	Minimum       bolt.Grade  `json:"minimum_grade"`
 
 	TensionResistance float64 `json:"f_t_rd"` // F_t,Rd = k₂·f_ub·A_s/γ_M2, N
 	PreloadForce      float64 `json:"f_p_c"`  // F_p,C = 0.7·f_ub·A_s, N
@@ -300,11 +302,11 @@ func (r *Results) bolt(j Joint, p Params) error {
 	if err != nil {
 		return err
 	}
-	nom, err := NominalGrade(j.Grade)
+	nom, err := bolt.NominalGrade(j.Grade)
 	if err != nil {
 		return err
 	}
-	minimum, err := MinimumGrade(j.Grade, t.D)
+	minimum, err := bolt.MinimumGrade(j.Grade, t.D)
 	if err != nil {
 		return err
 	}
@@ -318,7 +320,7 @@ func (r *Results) bolt(j Joint, p Params) error {
 		Nominal:           nom,
 		Minimum:           minimum,
 		TensionResistance: TensionResistance(as, nom.Fub, p.K2, p.GammaM2),
-		PreloadForce:      PreloadForce(as, nom.Fub),
+		PreloadForce:      bolt.DesignPreload(as, nom.Fub),
 	}
 	return nil
 }

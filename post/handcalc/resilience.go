@@ -3,6 +3,8 @@ package handcalc
 import (
 	"fmt"
 	"math"
+
+	"flangeseg/material/bolt"
 )
 
 // Lengths, as multiples of d, that VDI 2230 Part 1 uses for the parts of a
@@ -16,10 +18,10 @@ const (
 
 // BoltBody is the part of a bolt that a clamp loads.
 type BoltBody struct {
-	Thread Thread  `json:"thread"`
-	Shank  float64 `json:"shank"` // l_1, unthreaded shank inside the clamp, mm
-	Free   float64 `json:"free"`  // l_Gew, free loaded thread inside the clamp, mm
-	E      float64 `json:"e"`     // E_S, Young's modulus of bolt and nut, MPa
+	Thread bolt.Thread `json:"thread"`
+	Shank  float64     `json:"shank"` // l_1, unthreaded shank inside the clamp, mm
+	Free   float64     `json:"free"`  // l_Gew, free loaded thread inside the clamp, mm
+	E      float64     `json:"e"`     // E_S, Young's modulus of bolt and nut, MPa
 }
 
 // BoltResilience holds the elastic resiliences δ (mm/N) of a bolt's parts.
@@ -39,7 +41,7 @@ type BoltResilience struct {
 // of VDI 2230 Part 1 (from memory): head 0.5·d (hexagon head), engaged
 // thread 0.5·d, nut 0.4·d.
 func (b BoltBody) Resilience() (BoltResilience, error) {
-	if err := b.Thread.valid(); err != nil {
+	if err := b.Thread.Valid(); err != nil {
 		return BoltResilience{}, err
 	}
 	var v violations

@@ -1,6 +1,10 @@
 package handcalc
 
-import "testing"
+import (
+	"testing"
+
+	"flangeseg/material/bolt"
+)
 
 // VDI 2230 Part 1 resiliences (formulas from memory) of a simple clamp,
 // worked by hand: an M16 (P = 2) through two plates of 20 mm,
@@ -15,7 +19,7 @@ import "testing"
 //
 // δ_S = 0.345722/210000 = 1.64630e-6 mm/N.
 func TestBoltResilienceHandWorked(t *testing.T) {
-	b := BoltBody{Thread: Thread{D: 16, Pitch: 2}, Shank: 30, Free: 10, E: 210000}
+	b := BoltBody{Thread: bolt.Thread{D: 16, Pitch: 2}, Shank: 30, Free: 10, E: 210000}
 	r, err := b.Resilience()
 	if err != nil {
 		t.Fatal(err)

@@ -1,4 +1,4 @@
-package main
+package segment
 
 import (
 	"errors"
@@ -7,37 +7,15 @@ import (
 
 	"flangeseg/contact"
 	"flangeseg/fem"
+	"flangeseg/fem/segment/figures"
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/fem/sparse"
 )
-
-// historyRow is one converged state of the analysis.
-type historyRow struct {
-	increment   int
-	stage       string
-	z           float64 // segment force Z, N
-	u           float64 // loaded-edge displacement from the preloaded state, mm
-	fs          float64 // bolt force at the contact plane, N
-	mInterface  float64 // bolt bending moment at the contact plane, N·mm
-	mHead       float64 // bolt bending moment under the head, N·mm
-	gapEdge     float64 // opening at the shell-side corner, mm
-	zoneForce   []float64
-	shellSide   float64 // contact force between bolt axis and shell face (x ≥ 0), N
-	penetration float64 // largest penetration of any pair, mm
-	zFixed      float64 // z reaction at the fixed shell end, N (equilibrium check)
-	iterations  int
-	// Yielding (zero with elastic laws): largest equivalent plastic
-	// strain and damage indicator anywhere, per failure site, and the
-	// largest damage in the bolt with where it is.
-	maxPlastic, maxDamage float64
-	sitePlastic           map[string]float64
-	boltDamage            float64
-	boltDamageWhere       string
-}
 
 // state is a converged state kept for field output.
 type state struct {
 	label    string
-	row      historyRow
+	row      figures.Row
 	solution *fem.Solution
 	contacts map[string][]contact.NodeResult
 	history  pointScalars // plastic strain and damage per point (nil when elastic)
@@ -45,7 +23,7 @@ type state struct {
 
 // analysis is what a run produced, up to its last converged increment.
 type analysis struct {
-	rows     []historyRow
+	rows     []figures.Row
 	states   []state
 	preload  fem.PreloadResult
 	ending   string // why the tension stage ended
@@ -59,6 +37,15 @@ type analyseOptions struct {
 	log      func(string)                                // per-iteration log (--verbose), or nil
 	progress func(done, all int)                         // after each increment, or nil
 	keep     func(inc int) bool                          // which increments to keep fields of
+	stop     func() error                                // before the preload and after each increment: non-nil ends the run with it
+}
+
+// halt is the stop callback's verdict (nil without one).
+func (o analyseOptions) halt() error {
+	if o.stop == nil {
+		return nil
+	}
+	return o.stop()
 }
 
 // analyse runs the preload and tension stages. A failure to converge ends
@@ -71,6 +58,9 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		return nil, err
 	}
 	res := &analysis{equation: g.model.Equations()}
+	if err := opt.halt(); err != nil {
+		return nil, err
+	}
 	v0, err := g.preload(s, res)
 	if err != nil {
 		if fem.IsNotConverged(err) {
@@ -105,13 +95,16 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		if opt.progress != nil {
 			opt.progress(int(math.Round(inc.Fraction*float64(ld.Increments))), ld.Increments)
 		}
-		peak = math.Max(peak, row.z)
-		if peak > 0 && row.z < (1-ld.StopDrop)*peak {
+		if err := opt.halt(); err != nil {
+			return true, err
+		}
+		peak = math.Max(peak, row.Z)
+		if peak > 0 && row.Z < (1-ld.StopDrop)*peak {
 			res.ending = fmt.Sprintf("segment force fell %.0f %% below its peak", 100*ld.StopDrop)
 			return true, nil
 		}
-		if row.boltDamage >= 1 {
-			res.ending = fmt.Sprintf("bolt rupture: damage indicator D = %.2f ≥ 1 in the %s", row.boltDamage, row.boltDamageWhere)
+		if row.BoltDamage >= 1 {
+			res.ending = fmt.Sprintf("bolt rupture: damage indicator D = %.2f ≥ 1 in the %s", row.BoltDamage, row.BoltDamageWhere)
 			return true, nil
 		}
 		return false, nil
@@ -250,25 +243,25 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 // the initial gap at the bolt axis that the shortening closes first.
 func (g *segment) preloadEstimate(f float64) float64 {
 	lk := 2 * (g.spec.Flange.Thickness + g.spec.Bolt.WasherThickness)
-	shortening := 2*f*lk/(steelE*g.der.StressArea) + g.faceGap(0)
+	shortening := 2*f*lk/(modelfile.SteelE*g.der.StressArea) + g.faceGap(0)
 	return -shortening / g.slice
 }
 
 // record measures the current state.
-func (g *segment) record(s *fem.Solver, inc int, stage string, v0 float64, its int) (historyRow, error) {
-	row := historyRow{increment: inc, stage: stage, iterations: its}
+func (g *segment) record(s *fem.Solver, inc int, stage string, v0 float64, its int) (figures.Row, error) {
+	row := figures.Row{Increment: inc, Stage: stage, Iterations: its}
 	var err error
-	if row.z, err = s.Reaction(g.edge.Axial); err != nil {
+	if row.Z, err = s.Reaction(g.edge.Axial); err != nil {
 		return row, err
 	}
-	row.u = s.U()[g.edge.Axial] - v0
-	if _, row.zFixed, err = s.NodeSetReaction("lower_end"); err != nil {
+	row.U = s.U()[g.edge.Axial] - v0
+	if _, row.ZFixed, err = s.NodeSetReaction("lower_end"); err != nil {
 		return row, err
 	}
-	if row.fs, _, row.mInterface, err = s.SectionForce(g.cut.elems, g.cut.nodes, 0); err != nil {
+	if row.Fs, _, row.MomentInterface, err = s.SectionForce(g.cut.elems, g.cut.nodes, 0); err != nil {
 		return row, err
 	}
-	if _, _, row.mHead, err = s.SectionForce(g.under.elems, g.under.nodes, 0); err != nil {
+	if _, _, row.MomentHead, err = s.SectionForce(g.under.elems, g.under.nodes, 0); err != nil {
 		return row, err
 	}
 	cur := s.Current()
@@ -278,15 +271,15 @@ func (g *segment) record(s *fem.Solver, inc int, stage string, v0 float64, its i
 		// The corner node itself may find no master point beyond the
 		// face's end; the nearest paired node stands for it.
 		if d := math.Abs(r.X - corner); d < best && r.Paired {
-			best, row.gapEdge = d, r.Gap
+			best, row.GapEdge = d, r.Gap
 		}
 	}
 	for _, z := range g.zones {
-		row.zoneForce = append(row.zoneForce, g.faces.ForceBetween(cur, z.x0, z.x1))
+		row.ZoneForce = append(row.ZoneForce, g.faces.ForceBetween(cur, z.x0, z.x1))
 	}
-	row.shellSide = g.faces.ForceBetween(cur, 0, corner+1)
+	row.ShellSide = g.faces.ForceBetween(cur, 0, corner+1)
 	for _, p := range []*contact.Pair{g.faces, g.head, g.nut} {
-		row.penetration = math.Max(row.penetration, p.MaxPenetration(cur))
+		row.Penetration = math.Max(row.Penetration, p.MaxPenetration(cur))
 	}
 	return row, nil
 }
@@ -294,7 +287,7 @@ func (g *segment) record(s *fem.Solver, inc int, stage string, v0 float64, its i
 // observe evaluates the integration points once for what a recorded
 // increment needs of them: the yielding figures of its row (with a
 // path-dependent law) and, if keep, the state for field output.
-func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *historyRow, keep bool) error {
+func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *figures.Row, keep bool) error {
 	history := g.model.HasHistory()
 	if !keep && !history {
 		return nil
@@ -308,8 +301,8 @@ func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *histo
 		// The points' history aliases the model's storage, which the next
 		// evaluation overwrites: read what the output needs now.
 		ps = g.readPlastic(sol.Points)
-		row.maxPlastic, row.maxDamage, row.sitePlastic = ps.maxPlastic, ps.maxDmg, ps.site
-		row.boltDamage, row.boltDamageWhere = ps.boltDamage, ps.boltDamageWhere
+		row.MaxPlastic, row.MaxDamage, row.SitePlastic = ps.maxPlastic, ps.maxDmg, ps.site
+		row.BoltDamage, row.BoltDamageWhere = ps.boltDamage, ps.boltDamageWhere
 	}
 	if keep {
 		return g.keepState(s, res, label, *row, sol, ps.points)
@@ -319,7 +312,7 @@ func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *histo
 
 // keepState keeps a converged state for field output: its solution (with
 // Cauchy stress under large deformation), yielding scalars and contact.
-func (g *segment) keepState(s *fem.Solver, res *analysis, label string, row historyRow, sol *fem.Solution, scalars pointScalars) error {
+func (g *segment) keepState(s *fem.Solver, res *analysis, label string, row figures.Row, sol *fem.Solution, scalars pointScalars) error {
 	var err error
 	if g.spec.Analysis.LargeDeformation {
 		if sol.Points, err = sol.CauchyPoints(); err != nil {

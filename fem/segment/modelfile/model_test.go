@@ -1,44 +1,44 @@
-package main
+package modelfile
 
 import (
 	"bytes"
-	"flangeseg/material"
 	"math"
+	"os"
+	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
+
+	"flangeseg/material"
 )
 
 func near(got, want, rel float64) bool {
 	return math.Abs(got-want) <= rel*math.Abs(want)
 }
 
-func demoSpec(t *testing.T, name string) *Spec {
+// demoDir holds the demo models the binary embeds; the tests read them
+// from there, so there is one copy.
+var demoDir = filepath.Join("..", "..", "..", "cmd", "flangeseg", "demo")
+
+// demoNames are the demo models, in the order the binary runs them.
+var demoNames = []string{"flat", "bands"}
+
+func demoData(t *testing.T, name string) []byte {
 	t.Helper()
-	for _, m := range demoModels() {
-		if m.Name == name {
-			s, err := decodeSpec(m.Data)
-			if err != nil {
-				t.Fatalf("demo %s: %v", name, err)
-			}
-			return s
-		}
+	data, err := os.ReadFile(filepath.Join(demoDir, name+".toml"))
+	if err != nil {
+		t.Fatal(err)
 	}
-	t.Fatalf("no demo model %q", name)
-	return nil
+	return data
 }
 
-func TestDemoModelsListed(t *testing.T) {
-	var names []string
-	for _, m := range demoModels() {
-		names = append(names, m.Name)
-		if !bytes.Contains(m.Data, []byte("[tower]")) {
-			t.Errorf("demo %s: no [tower] table", m.Name)
-		}
+func demoSpec(t *testing.T, name string) *Spec {
+	t.Helper()
+	s, err := Decode(demoData(t, name))
+	if err != nil {
+		t.Fatalf("demo %s: %v", name, err)
 	}
-	if strings.Join(names, ",") != "flat,bands" {
-		t.Errorf("demo models %v, want flat, bands", names)
-	}
+	return s
 }
 
 // The demo joint (invented: D = 4300, n = 120, t = 28, t_f = 90, a = 75,
@@ -52,7 +52,7 @@ func TestDemoDerived(t *testing.T) {
 	h := math.Sqrt(3) / 2 * 48
 	c := 2 * math.Pi * (2150 - 85) / 120 // 108.12 mm
 	for _, name := range []string{"flat", "bands"} {
-		d := demoSpec(t, name).derive()
+		d := demoSpec(t, name).Derive()
 		cases := []struct {
 			what      string
 			got, want float64
@@ -108,7 +108,7 @@ func TestDemoDerived(t *testing.T) {
 func TestDemoBandsZones(t *testing.T) {
 	s := demoSpec(t, "bands")
 	want := []ZoneSpec{{From: -75, To: -50}, {From: 65, To: 99}}
-	if !reflect.DeepEqual(s.Contact.Zones, want) || s.Contact.Recess != 0.3 || s.Contact.RecessOn != recessBoth {
+	if !reflect.DeepEqual(s.Contact.Zones, want) || s.Contact.Recess != 0.3 || s.Contact.RecessOn != RecessBoth {
 		t.Errorf("contact %+v", s.Contact)
 	}
 	if flat := demoSpec(t, "flat"); flat.Contact.Zones != nil {
@@ -144,7 +144,7 @@ max_displacement = 1.2
 `
 
 func TestDefaults(t *testing.T) {
-	s, err := decodeSpec([]byte(minimalModel))
+	s, err := Decode([]byte(minimalModel))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -162,12 +162,12 @@ func TestDefaults(t *testing.T) {
 		t.Errorf("defaults:\n got %+v\nwant %+v", *s, want)
 	}
 	// A full thread takes no thread_length: it runs the clamp.
-	full, err := decodeSpec([]byte(strings.Replace(minimalModel, `"partial"`, `"full"`, 1)))
+	full, err := Decode([]byte(strings.Replace(minimalModel, `"partial"`, `"full"`, 1)))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if full.Bolt.ThreadLength != nil || full.derive().ThreadInClamp != 196 {
-		t.Errorf("full thread: thread_length %v, thread in clamp %g", full.Bolt.ThreadLength, full.derive().ThreadInClamp)
+	if full.Bolt.ThreadLength != nil || full.Derive().ThreadInClamp != 196 {
+		t.Errorf("full thread: thread_length %v, thread in clamp %g", full.Bolt.ThreadLength, full.Derive().ThreadInClamp)
 	}
 }
 
@@ -247,26 +247,26 @@ nu = 0.3
 // The resolved model decodes to an equal Spec and resolves to the same text.
 func TestResolvedRoundTrip(t *testing.T) {
 	inputs := map[string][]byte{"minimal": []byte(minimalModel), "full": []byte(fullModel)}
-	for _, m := range demoModels() {
-		inputs[m.Name] = m.Data
+	for _, name := range demoNames {
+		inputs[name] = demoData(t, name)
 	}
 	for name, data := range inputs {
-		s, err := decodeSpec(data)
+		s, err := Decode(data)
 		if err != nil {
 			t.Fatalf("%s: %v", name, err)
 		}
-		text, err := s.resolvedTOML()
+		text, err := s.ResolvedTOML()
 		if err != nil {
 			t.Fatalf("%s: %v", name, err)
 		}
-		back, err := decodeSpec(text)
+		back, err := Decode(text)
 		if err != nil {
 			t.Fatalf("%s: resolved model does not decode: %v\n%s", name, err, text)
 		}
 		if !reflect.DeepEqual(s, back) {
 			t.Errorf("%s: round trip changed the model:\n got %+v\nwant %+v", name, back, s)
 		}
-		again, _ := back.resolvedTOML()
+		again, _ := back.ResolvedTOML()
 		if !bytes.Equal(text, again) {
 			t.Errorf("%s: resolving twice differs:\n%s\n---\n%s", name, text, again)
 		}
@@ -274,11 +274,11 @@ func TestResolvedRoundTrip(t *testing.T) {
 }
 
 func TestDerivedFullModel(t *testing.T) {
-	s, err := decodeSpec([]byte(fullModel))
+	s, err := Decode([]byte(fullModel))
 	if err != nil {
 		t.Fatal(err)
 	}
-	d := s.derive()
+	d := s.Derive()
 	// nut_turn 90° with P = 4.5 mm: 90/360·4.5 = 1.125 mm, no target force.
 	if !near(d.PreloadShortening, 1.125, 1e-12) || d.PreloadForce != 0 {
 		t.Errorf("nut turn: shortening %g mm, force %g N", d.PreloadShortening, d.PreloadForce)
@@ -312,11 +312,11 @@ func TestWarnings(t *testing.T) {
 		{"max_displacement = 1.2", "max_displacement = 1.2\n[contact]\nzones = [{from = -10, to = 10}]", "contact.zones[0] = [-10, 10] lies inside the bolt hole"},
 	}
 	for _, c := range cases {
-		s, err := decodeSpec([]byte(strings.Replace(minimalModel, c.old, c.new, 1)))
+		s, err := Decode([]byte(strings.Replace(minimalModel, c.old, c.new, 1)))
 		if err != nil {
 			t.Fatalf("%q: %v", c.new, err)
 		}
-		if w := strings.Join(s.derive().Warnings, "\n"); !strings.Contains(w, c.want) {
+		if w := strings.Join(s.Derive().Warnings, "\n"); !strings.Contains(w, c.want) {
 			t.Errorf("%q: warnings lack %q:\n%s", c.new, c.want, w)
 		}
 	}

@@ -1,4 +1,4 @@
-package main
+package segment
 
 import (
 	"fmt"
@@ -8,6 +8,7 @@ import (
 
 	"flangeseg/contact"
 	"flangeseg/fem"
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/material"
 	"flangeseg/mesh"
 	"flangeseg/post/handcalc"
@@ -15,8 +16,8 @@ import (
 
 // segment is one bolt segment turned into a finite-element model.
 type segment struct {
-	spec    *Spec
-	der     Derived
+	spec    *modelfile.Spec
+	der     modelfile.Derived
 	mesh    *mesh.Mesh
 	model   *fem.Model
 	edge    fem.RigidEdge
@@ -54,16 +55,8 @@ type boltCut struct {
 	elems, nodes []int
 }
 
-// boltMaterial is the material the bolt regions take.
-func (s *Spec) boltMaterial() string {
-	if s.Bolt.Material != "" {
-		return s.Bolt.Material
-	}
-	return s.Bolt.Grade
-}
-
 // geometry maps the model file to the mesher's description.
-func (s *Spec) geometry(d Derived) mesh.FlangeSegment {
+func geometry(s *modelfile.Spec, d modelfile.Derived) mesh.FlangeSegment {
 	kind := mesh.Quad8
 	if s.Mesh.Element == "quad4" {
 		kind = mesh.Quad4
@@ -104,22 +97,11 @@ func (s *Spec) geometry(d Derived) mesh.FlangeSegment {
 	}
 }
 
-// handJoint is the joint as the hand methods see it.
-func (s *Spec) handJoint(d Derived) handcalc.Joint {
-	return handcalc.Joint{
-		T: s.Shell.Thickness, Tf: s.Flange.Thickness, A: s.Flange.A, B: s.Flange.B, C: d.SegmentWidth,
-		D: d.D, Pitch: d.Pitch, Grade: s.Bolt.Grade,
-		Hole: s.Bolt.Hole, Washer: s.Bolt.WasherOuter, WasherThickness: s.Bolt.WasherThickness,
-		FreeThread: d.ThreadInClamp, ShellFy: d.ShellYield, FlangeFy: d.FlangeYield,
-		Preload: d.DesignPreload, E: steelE,
-	}
-}
-
 // buildSegment meshes the joint and sets up supports, ring springs,
 // contact pairs and the loaded edge.
-func buildSegment(s *Spec, d Derived) (*segment, error) {
+func buildSegment(s *modelfile.Spec, d modelfile.Derived) (*segment, error) {
 	g := &segment{spec: s, der: d}
-	msh, err := mesh.BuildFlangeSegment(s.geometry(d), s.partMaterials())
+	msh, err := mesh.BuildFlangeSegment(geometry(s, d), partMaterials(s))
 	if err != nil {
 		return nil, fmt.Errorf("mesh: %w", err)
 	}
@@ -127,7 +109,7 @@ func buildSegment(s *Spec, d Derived) (*segment, error) {
 		return nil, fmt.Errorf("mesh: %w", err)
 	}
 	g.mesh = msh
-	laws, err := s.laws()
+	laws, err := lawsOf(s)
 	if err != nil {
 		return nil, err
 	}
@@ -136,7 +118,7 @@ func buildSegment(s *Spec, d Derived) (*segment, error) {
 	// shortening flow away instead of tensioning the bolt.
 	for i, r := range msh.Regions {
 		if r.Name == "bolt_preload" {
-			info, err := s.material(s.boltMaterial(), 0)
+			info, err := s.Material(s.BoltMaterial(), 0)
 			if err != nil {
 				return nil, err
 			}
@@ -144,7 +126,7 @@ func buildSegment(s *Spec, d Derived) (*segment, error) {
 			laws[msh.Regions[i].Material] = material.Elastic{E: info.E, Nu: info.Nu}
 		}
 	}
-	shell, _ := s.material(s.Shell.Material, s.Shell.Thickness)
+	shell, _ := s.Material(s.Shell.Material, s.Shell.Thickness)
 	g.shellE = shell.E
 	cond := material.PlaneStress
 	if s.Analysis.Plane == "strain" {
@@ -181,9 +163,9 @@ func buildSegment(s *Spec, d Derived) (*segment, error) {
 	if !(d.ShellYield > 0 && d.FlangeYield > 0) {
 		// Every run reports the hand methods beside the FE; they need f_y.
 		return nil, fmt.Errorf("hand methods: shell f_y = %s MPa, flange f_y = %s MPa: both must be > 0; a [materials] entry without a curve has none — give it a curve, or use a built-in grade with analysis.materials = %q for a linear elastic analysis",
-			fnum(d.ShellYield), fnum(d.FlangeYield), elasticOnly)
+			modelfile.FormatNumber(d.ShellYield), modelfile.FormatNumber(d.FlangeYield), modelfile.ElasticOnly)
 	}
-	if g.hand, err = handcalc.Analyze(s.handJoint(d), handcalc.DefaultParams()); err != nil {
+	if g.hand, err = handcalc.Analyze(s.HandJoint(d), handcalc.DefaultParams()); err != nil {
 		return nil, fmt.Errorf("hand methods: %w", err)
 	}
 	return g, nil

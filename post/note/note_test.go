@@ -1,7 +1,8 @@
-package main
+package note
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"os"
 	"path/filepath"
@@ -9,30 +10,32 @@ import (
 	"strings"
 	"testing"
 
+	"flangeseg/fem/segment"
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/mesh"
 	"flangeseg/post"
+	"flangeseg/post/results"
 )
 
 // reportRun is a coarse demo run written as far as a comparison reads
 // it: history.csv and summary.json in its run directory.
 type reportRun struct {
-	g   *segment
-	res *analysis
-	sum summary
-	job modelJob
+	res *segment.Result
+	sum results.Summary
+	job ModelJob
 }
 
 func newReportRun(t *testing.T, i int) reportRun {
 	t.Helper()
-	g, res := coarseModel(t, i, nil)
+	res := coarseRun(t, i)
 	name := demoModels()[i].Name
 	dir := filepath.Join(t.TempDir(), name)
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		t.Fatal(err)
 	}
 	path := name + ".toml"
-	sum := makeSummary(path, g, res)
-	tab, err := historyTable(g, res)
+	sum := results.NewSummary(path, res)
+	tab, err := results.HistoryTable(res)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -42,7 +45,7 @@ func newReportRun(t *testing.T, i int) reportRun {
 	if err := post.WriteJSON(filepath.Join(dir, "summary.json"), sum); err != nil {
 		t.Fatal(err)
 	}
-	return reportRun{g: g, res: res, sum: sum, job: modelJob{spec: g.spec, path: path, dir: dir}}
+	return reportRun{res: res, sum: sum, job: ModelJob{Spec: res.Segment.Spec(), Path: path, Dir: dir, Text: demoModels()[i].Data}}
 }
 
 func readFile(t *testing.T, path string) []byte {
@@ -82,24 +85,24 @@ var runSections = []string{"Joint section and dimensions", "Inputs", "Preload", 
 // bytes when written again.
 func TestReportRunAndCompare(t *testing.T) {
 	runs := []reportRun{newReportRun(t, 0), newReportRun(t, 1)}
-	var jobs []modelJob
-	var sums []summary
+	var jobs []ModelJob
+	var sums []results.Summary
 	for _, r := range runs {
-		if err := writeRunReport(r.job.dir, r.job.path, r.g, r.res, r.sum); err != nil {
+		if err := WriteRun(r.job.Dir, r.job.Path, r.job.Text, r.res, r.sum); err != nil {
 			t.Fatal(err)
 		}
-		first := readFile(t, filepath.Join(r.job.dir, "report.html"))
-		if err := writeRunReport(r.job.dir, r.job.path, r.g, r.res, r.sum); err != nil {
+		first := readFile(t, filepath.Join(r.job.Dir, "report.html"))
+		if err := WriteRun(r.job.Dir, r.job.Path, r.job.Text, r.res, r.sum); err != nil {
 			t.Fatal(err)
 		}
-		if !bytes.Equal(first, readFile(t, filepath.Join(r.job.dir, "report.html"))) {
-			t.Errorf("%s: report.html differs between two writes", r.job.path)
+		if !bytes.Equal(first, readFile(t, filepath.Join(r.job.Dir, "report.html"))) {
+			t.Errorf("%s: report.html differs between two writes", r.job.Path)
 		}
 		page := string(first)
 		checkPage(t, page, runSections)
 		for _, want := range []string{
-			r.g.spec.Title,
-			"flangeseg " + version,
+			r.res.Segment.Spec().Title,
+			"flangeseg " + post.Version,
 			"flange thickness (flange.thickness)", // every key with its path
 			"EN 1993-1-8, 3.9",                    // F_p,C with its source
 			"ISO 898-1",                           // A_s with its source
@@ -109,22 +112,22 @@ func TestReportRunAndCompare(t *testing.T) {
 			"not assessed: linear elastic materials", // the demo is elastic: no FE ultimate load
 		} {
 			if !strings.Contains(page, want) {
-				t.Errorf("%s: report.html lacks %q", r.job.path, want)
+				t.Errorf("%s: report.html lacks %q", r.job.Path, want)
 			}
 		}
 		if strings.Contains(page, "Equivalent plastic strain") {
-			t.Errorf("%s: plastic strain pictured for an elastic run", r.job.path)
+			t.Errorf("%s: plastic strain pictured for an elastic run", r.job.Path)
 		}
 		jobs, sums = append(jobs, r.job), append(sums, r.sum)
 	}
 
 	dir := filepath.Join(t.TempDir(), "cmp")
 	names := []string{"flat", "bands"}
-	if err := writeCompareReport(dir, names, jobs, sums); err != nil {
+	if err := WriteCompare(dir, names, jobs, sums); err != nil {
 		t.Fatal(err)
 	}
 	first := readFile(t, filepath.Join(dir, "report.html"))
-	if err := writeCompareReport(dir, names, jobs, sums); err != nil {
+	if err := WriteCompare(dir, names, jobs, sums); err != nil {
 		t.Fatal(err)
 	}
 	if !bytes.Equal(first, readFile(t, filepath.Join(dir, "report.html"))) {
@@ -132,7 +135,7 @@ func TestReportRunAndCompare(t *testing.T) {
 	}
 	page := string(first)
 	checkPage(t, page, append([]string{"Models compared", "Comparison", "Overlaid curves", "Run 1 — ", "Run 2 — "}, runSections...))
-	for _, want := range []string{"run 2 / run 1", "Bolt force against segment force, all runs", "run 2, bands", runs[1].g.spec.Title} {
+	for _, want := range []string{"run 2 / run 1", "Bolt force against segment force, all runs", "run 2, bands", runs[1].res.Segment.Spec().Title} {
 		if !strings.Contains(page, want) {
 			t.Errorf("compare report.html lacks %q", want)
 		}
@@ -141,7 +144,7 @@ func TestReportRunAndCompare(t *testing.T) {
 
 // A comparison needs one name, model and summary per run.
 func TestReportCompareMismatch(t *testing.T) {
-	if err := writeCompareReport(t.TempDir(), []string{"a"}, nil, nil); err == nil {
+	if err := WriteCompare(t.TempDir(), []string{"a"}, nil, nil); err == nil {
 		t.Error("no error for one name and no models")
 	}
 }
@@ -151,17 +154,17 @@ func TestReportCompareMismatch(t *testing.T) {
 func TestReportInputKeysCoverSpec(t *testing.T) {
 	keys := inputKeys()
 	seen := map[string]bool{}
-	v := reflect.TypeOf(Spec{})
+	v := reflect.TypeOf(modelfile.Spec{})
 	for i := range v.NumField() {
 		f := v.Field(i)
 		if f.Type.Kind() != reflect.Struct {
 			continue
 		}
 		sec, _, _ := strings.Cut(f.Tag.Get("toml"), ",")
-		if _, ok := inputCaptions[sec]; !ok {
+		if _, ok := inputCaptions()[sec]; !ok {
 			t.Errorf("table [%s] has no caption", sec)
 		}
-		names, _ := tomlFields(f.Type)
+		names := modelfile.TableKeys(f.Type)
 		for j, key := range names {
 			path := sec + "." + key
 			seen[path] = true
@@ -186,30 +189,16 @@ func TestReportInputKeysCoverSpec(t *testing.T) {
 	}
 }
 
-// The note's comparison rows are those of the printed table and
-// comparison.csv, in the same order.
-func TestReportComparedFiguresMatch(t *testing.T) {
-	a, b := comparedFigures(), comparedQuantities()
-	if len(a) != len(b) {
-		t.Fatalf("%d figures in the note, %d in the table", len(a), len(b))
-	}
-	for i := range a {
-		if a[i].column != b[i].column {
-			t.Errorf("row %d: note %s, table %s", i, a[i].column, b[i].column)
-		}
-	}
-}
-
 // Sources of the inputs: the demo model as embedded gives flange.a and
 // leaves load.stop_drop to its default; an edited Spec is not claimed for
 // either.
 func TestReportKeySources(t *testing.T) {
 	m := demoModels()[1]
-	s, err := decodeSpec(m.Data)
+	s, err := modelfile.Decode(m.Data)
 	if err != nil {
 		t.Fatal(err)
 	}
-	src := modelKeys(filepath.Join(t.TempDir(), m.Name+".toml"), s)
+	src := modelKeys(filepath.Join(t.TempDir(), m.Name+".toml"), m.Data, s)
 	if got := src.source("flange.a"); got != srcFile {
 		t.Errorf("flange.a: source %q, want %q", got, srcFile)
 	}
@@ -217,7 +206,7 @@ func TestReportKeySources(t *testing.T) {
 		t.Errorf("load.stop_drop: source %q, want the default", got)
 	}
 	s.Flange.A++
-	if got := modelKeys(m.Name+".toml", s).source("flange.a"); got != "model file or default" {
+	if got := modelKeys(m.Name+".toml", m.Data, s).source("flange.a"); got != "model file or default" {
 		t.Errorf("edited Spec: source %q", got)
 	}
 }
@@ -243,18 +232,18 @@ func TestReportNodalPlastic(t *testing.T) {
 // A run that stopped in the preload stage still gets its note; the
 // sections without data say so.
 func TestReportPreloadFailed(t *testing.T) {
-	spec, err := decodeSpec(demoModels()[0].Data)
+	spec, err := modelfile.Decode(demoModels()[0].Data)
 	if err != nil {
 		t.Fatal(err)
 	}
 	spec.Mesh.Size, spec.Mesh.Refine = 16, 0.5
-	g, err := buildSegment(spec, spec.derive())
+	g, err := segment.Build(spec)
 	if err != nil {
 		t.Fatal(err)
 	}
-	res := &analysis{failure: errors.New("preload: not converged"), ending: "the preload stage did not converge"}
+	res := &segment.Result{Segment: g, Failure: errors.New("preload: not converged"), Ending: "the preload stage did not converge"}
 	dir := t.TempDir()
-	if err := writeRunReport(dir, "flat.toml", g, res, makeSummary("flat.toml", g, res)); err != nil {
+	if err := WriteRun(dir, "flat.toml", demoModels()[0].Data, res, results.NewSummary("flat.toml", res)); err != nil {
 		t.Fatal(err)
 	}
 	page := string(readFile(t, filepath.Join(dir, "report.html")))
@@ -262,6 +251,61 @@ func TestReportPreloadFailed(t *testing.T) {
 	for _, want := range []string{"No preload data", "No curves", "No field pictures", "preload: not converged"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
+		}
+	}
+}
+
+// coarseRun runs demo model i on a coarse mesh, in six increments to
+// 0.6 mm.
+func coarseRun(t *testing.T, i int) *segment.Result {
+	t.Helper()
+	spec, err := modelfile.Decode(demoModels()[i].Data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec.Mesh.Size, spec.Mesh.Refine = 16, 0.5
+	spec.Load.Increments, spec.Load.MaxDisplacement = 6, 0.6
+	if err := spec.Validate(); err != nil {
+		t.Fatal(err)
+	}
+	res, err := segment.Run(context.Background(), spec, segment.Options{})
+	if err != nil || res.Failure != nil {
+		t.Fatal(err, res.Failure)
+	}
+	return res
+}
+
+// demoModel is a demo model as the binary embeds it; the tests read the
+// files from cmd/flangeseg/demo, so there is one copy.
+type demoModel struct {
+	Name string // "flat", "bands"
+	Data []byte
+}
+
+func demoModels() []demoModel {
+	var out []demoModel
+	for _, name := range []string{"flat", "bands"} {
+		data, err := os.ReadFile(filepath.Join("..", "..", "cmd", "flangeseg", "demo", name+".toml"))
+		if err != nil {
+			panic(err) // a test needs them; the checkout lacks them
+		}
+		out = append(out, demoModel{Name: name, Data: data})
+	}
+	return out
+}
+
+// The note's comparison rows are those of the printed table and
+// comparison.csv (results.ComparedFigures), in the same order, then the
+// mechanism and the reference load.
+func TestReportComparedFiguresMatch(t *testing.T) {
+	figs := results.ComparedFigures()
+	tab := comparisonTable([]string{"a", "b"}, []results.Summary{{}, {}})
+	if len(tab.Rows) != len(figs)+2 {
+		t.Fatalf("%d rows in the note, %d figures in the table", len(tab.Rows), len(figs))
+	}
+	for i, f := range figs {
+		if got := tab.Rows[i][0]; !got.IsText || got.Text != f.Name {
+			t.Errorf("row %d: note %q, table %s", i, got.Text, f.Column)
 		}
 	}
 }

@@ -1,4 +1,4 @@
-package main
+package figures
 
 import (
 	"fmt"
@@ -7,9 +7,9 @@ import (
 	"flangeseg/post/handcalc"
 )
 
-// jointFigures are the numbers an engineer reads off the curves (DESIGN.md,
+// Joint are the numbers an engineer reads off the curves (DESIGN.md,
 // "Outputs — names").
-type jointFigures struct {
+type Joint struct {
 	PreloadTargetKN    float64  `json:"preload_target_kN,omitempty"`
 	PreloadReachedKN   float64  `json:"preload_reached_kN"`
 	PreloadEigenstrain float64  `json:"preload_slice_strain"`
@@ -54,83 +54,99 @@ type jointFigures struct {
 	StubElongationPerKN float64 `json:"stub_elongation_per_kN_mm"`
 }
 
-// openGap is the opening that counts as open (DESIGN.md: gap > 1 µm).
-const openGap = 1e-3
+// OpenGap is the opening that counts as open, mm (DESIGN.md: gap > 1 µm).
+const OpenGap = 1e-3
 
 // crossing returns the first Z at which f(row) passes from false to true,
 // interpolating linearly on the quantity q between the two rows.
-func crossing(rows []historyRow, q func(historyRow) float64, above float64) *float64 {
+func crossing(rows []Row, q func(Row) float64, above float64) *float64 {
 	for i := 1; i < len(rows); i++ {
 		a, b := q(rows[i-1]), q(rows[i])
 		if a <= above && b > above {
 			t := (above - a) / (b - a)
-			z := (rows[i-1].z + t*(rows[i].z-rows[i-1].z)) / 1e3
+			z := (rows[i-1].Z + t*(rows[i].Z-rows[i-1].Z)) / 1e3
 			return &z
 		}
 	}
 	return nil
 }
 
-// at interpolates the row quantity q at segment force z (N) on the rising
+// At interpolates the row quantity q at segment force z (N) on the rising
 // part of the curve; false if z is not reached.
-func at(rows []historyRow, z float64, q func(historyRow) float64) (float64, bool) {
+func At(rows []Row, z float64, q func(Row) float64) (float64, bool) {
 	for i := 1; i < len(rows); i++ {
-		if rows[i].z >= z && rows[i-1].z < z {
-			t := (z - rows[i-1].z) / (rows[i].z - rows[i-1].z)
+		if rows[i].Z >= z && rows[i-1].Z < z {
+			t := (z - rows[i-1].Z) / (rows[i].Z - rows[i-1].Z)
 			return q(rows[i-1]) + t*(q(rows[i])-q(rows[i-1])), true
 		}
 	}
 	return 0, false
 }
 
-func figures(g *segment, res *analysis) jointFigures {
-	f := jointFigures{PreloadTargetKN: g.der.PreloadForce / 1e3, PreloadReachedKN: res.preload.Force / 1e3,
-		PreloadEigenstrain: res.preload.Eigenstrain, FailureLocation: "not assessed: linear elastic materials"}
-	f.HandUltimateKN = g.hand.CurveEnd / 1e3
+// Input is what the figures need beside the history.
+type Input struct {
+	PreloadTarget      float64 // F_p the preload aimed at, N; 0 for a nut turn
+	PreloadReached     float64 // bolt force after the preload stage, N
+	PreloadEigenstrain float64 // locked shortening strain of the preload slice
+	Hand               handcalc.Results
+	ServiceForce       *float64 // the reference load of the secants, N; nil: 40 % of the hand-method ultimate load
+	// StubElongation is the elongation of both shell stubs per unit
+	// segment force, 2·L/(E·t·c), mm/N: both stubs stretch as bars, and
+	// that is taken out for the stiffness of the joint alone, since the
+	// modelled length is arbitrary.
+	StubElongation float64
+	// Yielding says the laws are path-dependent: then the peak load and
+	// the mechanism are results of the run.
+	Yielding bool
+}
+
+// Read reads the joint figures off the rows of a run (the preload row
+// first) and names its failure mechanism.
+func Read(rows []Row, in Input) Joint {
+	f := Joint{PreloadTargetKN: in.PreloadTarget / 1e3, PreloadReachedKN: in.PreloadReached / 1e3,
+		PreloadEigenstrain: in.PreloadEigenstrain, FailureLocation: "not assessed: linear elastic materials"}
+	f.HandUltimateKN = in.Hand.CurveEnd / 1e3
 	f.HandUltimateBasis = "Seidel, characteristic, without k2 (post/handcalc)"
-	rows := res.rows
-	// Both shell stubs stretch as bars, Z·L/(E·t·c) each: taken out for the
-	// stiffness of the joint alone, since the modelled length is arbitrary.
-	stub := 2 * g.spec.Shell.Length / (g.shellE * g.spec.Shell.Thickness * g.der.SegmentWidth)
+	stub := in.StubElongation
 	f.StubElongationPerKN = stub * 1e3
-	if g.spec.Load.ServiceForce != nil {
-		f.ReferenceLoadKN, f.ReferenceFrom = *g.spec.Load.ServiceForce/1e3, "load.service_force"
+	if in.ServiceForce != nil {
+		f.ReferenceLoadKN, f.ReferenceFrom = *in.ServiceForce/1e3, "load.service_force"
 	} else {
 		f.ReferenceLoadKN, f.ReferenceFrom = 0.4*f.HandUltimateKN, "40 % of the hand-method ultimate load"
 	}
 	for _, r := range rows {
-		f.PenetrationMaxMM = math.Max(f.PenetrationMaxMM, r.penetration)
-		if r.z/1e3 > f.PeakLoadKN {
-			f.PeakLoadKN, f.DisplacementPeakMM = r.z/1e3, r.u
+		f.PenetrationMaxMM = math.Max(f.PenetrationMaxMM, r.Penetration)
+		if r.Z/1e3 > f.PeakLoadKN {
+			f.PeakLoadKN, f.DisplacementPeakMM = r.Z/1e3, r.U
 		}
 	}
 	f.FEVersusHand = "not assessed: linear elastic materials (no FE ultimate load)"
-	if !g.model.HasHistory() || len(rows) == 0 {
-		return jointCurveFigures(g, res, f, stub)
+	if !in.Yielding || len(rows) == 0 {
+		return curveFigures(rows, f, stub)
 	}
 	last := rows[len(rows)-1]
 	prying := 0.0
-	if last.z > 0 {
-		prying = last.fs / last.z
+	if last.Z > 0 {
+		prying = last.Fs / last.Z
 	}
 	var mode handcalc.Mode
-	f.FailureLocation, mode = mechanism(last.sitePlastic, prying)
-	f.MaxPlasticStrain, f.MaxDamage = last.maxPlastic, last.maxDamage
+	f.FailureLocation, mode = Mechanism(last.SitePlastic, prying)
+	f.MaxPlasticStrain, f.MaxDamage = last.MaxPlastic, last.MaxDamage
 	if f.HandUltimateKN > 0 {
 		f.FEToHandUltimate = f.PeakLoadKN / f.HandUltimateKN
-		rising := len(rows) > 1 && last.z >= rows[len(rows)-2].z
+		rising := len(rows) > 1 && last.Z >= rows[len(rows)-2].Z
 		if rising {
 			f.FEVersusHand = fmt.Sprintf("FE largest Z %.1f kN is %.2f × the hand ultimate load %.1f kN, and still rising at the end: a lower bound of the FE ultimate load", f.PeakLoadKN, f.FEToHandUltimate, f.HandUltimateKN)
 		} else {
 			f.FEVersusHand = fmt.Sprintf("FE peak %.1f kN is %.2f × the hand ultimate load %.1f kN", f.PeakLoadKN, f.FEToHandUltimate, f.HandUltimateKN)
 		}
-		if u, ok := g.hand.UltimateOn(handcalc.BasisCharacteristicNoK2); ok && mode != "" {
+		if u, ok := in.Hand.UltimateOn(handcalc.BasisCharacteristicNoK2); ok && mode != "" {
 			f.MechanismMode, f.ModeHandKN = string(mode), modeValue(u.Seidel, mode)/1e3
 			f.FEToMode = f.PeakLoadKN / f.ModeHandKN
 			f.FEVersusHand += fmt.Sprintf("; the FE mechanism is Petersen's mode %s, whose hand value is %.1f kN (FE/hand %.2f)", mode, f.ModeHandKN, f.FEToMode)
 		}
 	}
-	return jointCurveFigures(g, res, f, stub)
+	return curveFigures(rows, f, stub)
 }
 
 // modeValue is a mode's ultimate segment force, N.
@@ -144,57 +160,44 @@ func modeValue(m handcalc.Mechanisms, mode handcalc.Mode) float64 {
 	return m.C
 }
 
-// jointCurveFigures reads the service-range figures off the curves:
+// curveFigures reads the service-range figures off the curves:
 // stiffness, load factor, opening and decompression load.
-func jointCurveFigures(g *segment, res *analysis, f jointFigures, stub float64) jointFigures {
-	rows := res.rows
+func curveFigures(rows []Row, f Joint, stub float64) Joint {
 	if len(rows) < 2 {
 		return f
 	}
-	f.DisplacementEndMM = rows[len(rows)-1].u
+	f.DisplacementEndMM = rows[len(rows)-1].U
 	p, first := rows[0], rows[1]
-	secant := func(z, u float64) float64 { return (z - p.z) / 1e3 / (u - p.u) }
-	joint := func(z, u float64) float64 { return (z - p.z) / 1e3 / (u - p.u - (z-p.z)*stub) }
-	f.StiffnessTangentZero = secant(first.z, first.u)
-	f.JointStiffnessTangent = joint(first.z, first.u)
-	f.LoadFactorTangentZero = (first.fs - p.fs) / (first.z - p.z)
-	if p.gapEdge > openGap {
+	secant := func(z, u float64) float64 { return (z - p.Z) / 1e3 / (u - p.U) }
+	joint := func(z, u float64) float64 { return (z - p.Z) / 1e3 / (u - p.U - (z-p.Z)*stub) }
+	f.StiffnessTangentZero = secant(first.Z, first.U)
+	f.JointStiffnessTangent = joint(first.Z, first.U)
+	f.LoadFactorTangentZero = (first.Fs - p.Fs) / (first.Z - p.Z)
+	if p.GapEdge > OpenGap {
 		// The corner is open after preload already (a band face bent by
 		// the preload): it opens at Z = 0.
 		zero := 0.0
 		f.OpeningLoadKN = &zero
 		f.OpenAfterPreload = true
 	} else {
-		f.OpeningLoadKN = crossing(rows, func(r historyRow) float64 { return r.gapEdge }, openGap)
+		f.OpeningLoadKN = crossing(rows, func(r Row) float64 { return r.GapEdge }, OpenGap)
 	}
-	f.DecompressionKN = crossing(rows, func(r historyRow) float64 { return -r.shellSide }, -1e-6)
+	f.DecompressionKN = crossing(rows, func(r Row) float64 { return -r.ShellSide }, -1e-6)
 	if f.OpeningLoadKN != nil && *f.OpeningLoadKN > 0 {
 		z := *f.OpeningLoadKN * 1e3
-		if u, ok := at(rows, z, func(r historyRow) float64 { return r.u }); ok {
+		if u, ok := At(rows, z, func(r Row) float64 { return r.U }); ok {
 			k, kj := secant(z, u), joint(z, u)
 			f.StiffnessToOpening, f.JointStiffnessOpening = &k, &kj
 		}
 	}
 	zr := f.ReferenceLoadKN * 1e3
-	if u, ok := at(rows, zr, func(r historyRow) float64 { return r.u }); ok {
+	if u, ok := At(rows, zr, func(r Row) float64 { return r.U }); ok {
 		k, kj := secant(zr, u), joint(zr, u)
 		f.StiffnessToReference, f.JointStiffnessReference = &k, &kj
-		if fs, ok := at(rows, zr, func(r historyRow) float64 { return r.fs }); ok {
-			lf := (fs - p.fs) / (zr - p.z)
+		if fs, ok := At(rows, zr, func(r Row) float64 { return r.Fs }); ok {
+			lf := (fs - p.Fs) / (zr - p.Z)
 			f.LoadFactorToReference = &lf
 		}
 	}
 	return f
-}
-
-// handCurves samples the hand bolt-force models over [0, zmax] (N).
-func handCurves(h handcalc.Results, zmax float64) (z, diagram, trilinear []float64) {
-	const n = 60
-	for i := 0; i <= n; i++ {
-		x := zmax * float64(i) / n
-		z = append(z, x/1e3)
-		diagram = append(diagram, h.JointDiagram.Force(x)/1e3)
-		trilinear = append(trilinear, h.Trilinear.Force(x)/1e3)
-	}
-	return z, diagram, trilinear
 }

@@ -1,28 +1,24 @@
-package main
+package modelfile
 
 import (
-	"errors"
-	"flag"
 	"fmt"
-	"io"
 	"math"
 	"sort"
 	"strings"
-	"text/tabwriter"
 
-	"flangeseg/post/handcalc"
+	"flangeseg/material/bolt"
 )
 
-// validate checks a complete Spec (one with its defaults filled in, as
-// decodeSpec returns it, or built in code) and returns a *modelError that
+// Validate checks a complete Spec (one with its defaults filled in, as
+// Decode returns it, or built in code) and returns a *Error that
 // lists every broken rule, or nil.
-func (s *Spec) validate() error {
+func (s *Spec) Validate() error {
 	c := &checker{bad: map[string]bool{}}
 	s.check(c)
 	if len(c.errs) == 0 {
 		return nil
 	}
-	return &modelError{errs: c.errs}
+	return &Error{Errs: c.errs}
 }
 
 // checker collects broken rules. A key in bad (missing, of the wrong type,
@@ -56,10 +52,10 @@ func (c *checker) number(key string, x float64, ok bool, rule string) bool {
 	case !c.usable(key):
 		return false
 	case math.IsNaN(x) || math.IsInf(x, 0):
-		c.fail(key, "%s = %s: must be a finite number", key, fnum(x))
+		c.fail(key, "%s = %s: must be a finite number", key, FormatNumber(x))
 		return false
 	case !ok:
-		c.fail(key, "%s = %s: %s", key, fnum(x), rule)
+		c.fail(key, "%s = %s: %s", key, FormatNumber(x), rule)
 		return false
 	}
 	return true
@@ -96,7 +92,7 @@ func (s *Spec) check(c *checker) {
 	s.checkFlange(c)
 	th, threadOK := s.checkBolt(c)
 	s.checkMaterials(c)
-	d := s.derive()
+	d := s.Derive()
 	if threadOK {
 		s.checkBoltFit(c, th.D)
 		s.checkPreload(c, d)
@@ -130,11 +126,11 @@ func (s *Spec) checkFlange(c *checker) {
 	s.checkSteelThickness(c, "flange", s.Flange.Material, s.Flange.Thickness)
 	if c.usable("flange.neck_radius", "shell.length") && s.Flange.NeckRadius >= s.Shell.Length {
 		c.fail("flange.neck_radius", "flange.neck_radius = %s: must be less than shell.length = %s mm",
-			fnum(s.Flange.NeckRadius), fnum(s.Shell.Length))
+			FormatNumber(s.Flange.NeckRadius), FormatNumber(s.Shell.Length))
 	}
 	if c.usable("tower.diameter", "flange.a", "flange.b") && s.Tower.Diameter/2-s.Flange.B-s.Flange.A <= 0 {
 		c.fail("tower.diameter", "tower.diameter = %s: too small for the flange: the free edge would lie at radius D/2 − b − a = %s mm",
-			fnum(s.Tower.Diameter), fnum(s.Tower.Diameter/2-s.Flange.B-s.Flange.A))
+			FormatNumber(s.Tower.Diameter), FormatNumber(s.Tower.Diameter/2-s.Flange.B-s.Flange.A))
 	}
 }
 
@@ -147,11 +143,11 @@ func (s *Spec) checkMaterialName(c *checker, key, name string, grades bool) {
 		// The hand methods, which every run reports, need the shell's and
 		// the flange's yield strength: the first point of the curve.
 		if !grades && len(m.Curve) == 0 {
-			c.fail(key, "%s = %q: [%s] has no curve, so no yield strength for the hand methods; give it a curve, or use a built-in grade with analysis.materials = %q for a linear elastic analysis", key, name, joinKey("materials", name), elasticOnly)
+			c.fail(key, "%s = %q: [%s] has no curve, so no yield strength for the hand methods; give it a curve, or use a built-in grade with analysis.materials = %q for a linear elastic analysis", key, name, joinKey("materials", name), ElasticOnly)
 		}
 		return
 	}
-	_, gradeErr := handcalc.NominalGrade(name)
+	_, gradeErr := bolt.NominalGrade(name)
 	if grades && gradeErr == nil {
 		return
 	}
@@ -174,16 +170,16 @@ func (s *Spec) checkSteelThickness(c *checker, part, name string, t float64) {
 	}
 	if _, err := steelYield(name, t); err != nil {
 		c.fail(key, "%s = %s: beyond the yield table of %s (t ≤ 150 mm); define [materials.NAME] for a thicker plate",
-			key, fnum(t), name)
+			key, FormatNumber(t), name)
 	}
 }
 
 // checkBolt checks the bolt's own keys and returns its thread.
-func (s *Spec) checkBolt(c *checker) (handcalc.Thread, bool) {
+func (s *Spec) checkBolt(c *checker) (bolt.Thread, bool) {
 	b := s.Bolt
 	th, ok := s.checkThread(c)
 	c.oneOf("bolt.grade", b.Grade, "8.8", "10.9", "12.9")
-	c.oneOf("bolt.thread", b.Thread, threadPartial, threadFull)
+	c.oneOf("bolt.thread", b.Thread, ThreadPartial, ThreadFull)
 	c.nonNegative("bolt.washer_thickness", b.WasherThickness)
 	c.positive("bolt.head_height", b.HeadHeight)
 	c.positive("bolt.nut_height", b.NutHeight)
@@ -193,57 +189,57 @@ func (s *Spec) checkBolt(c *checker) (handcalc.Thread, bool) {
 	return th, ok && c.usable("bolt.grade")
 }
 
-func (s *Spec) checkThread(c *checker) (handcalc.Thread, bool) {
+func (s *Spec) checkThread(c *checker) (bolt.Thread, bool) {
 	b := s.Bolt
 	switch {
 	case !c.usable("bolt.size", "bolt.diameter", "bolt.pitch"):
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	case b.Size != "" && (b.Diameter != nil || b.Pitch != nil):
 		c.fail("bolt.size", "bolt.size = %q with bolt.diameter or bolt.pitch: give bolt.size or bolt.diameter and bolt.pitch, not both", b.Size)
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	case b.Size != "":
-		th, err := handcalc.CoarseThread(b.Size)
+		th, err := bolt.CoarseThread(b.Size)
 		if err != nil {
-			c.fail("bolt.size", "bolt.size = %q: not an ISO 261 coarse size (known: %s)", b.Size, strings.Join(handcalc.CoarseSizes(), ", "))
+			c.fail("bolt.size", "bolt.size = %q: not an ISO 261 coarse size (known: %s)", b.Size, strings.Join(bolt.CoarseSizes(), ", "))
 		}
 		return th, err == nil
 	case b.Diameter == nil && b.Pitch == nil:
 		c.fail("bolt.size", `bolt.size: missing (give bolt.size, e.g. "M48", or bolt.diameter and bolt.pitch)`)
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	case b.Pitch == nil:
 		c.fail("bolt.pitch", "bolt.pitch: missing (bolt.diameter needs a pitch)")
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	case b.Diameter == nil:
 		c.fail("bolt.diameter", "bolt.diameter: missing (bolt.pitch needs a diameter)")
-		return handcalc.Thread{}, false
+		return bolt.Thread{}, false
 	}
 	d, p := *b.Diameter, *b.Pitch
 	ok := c.positive("bolt.diameter", d)
 	ok = c.number("bolt.pitch", p, p > 0 && d-1.2269*p > 0, "must be > 0 and leave a minor diameter d − 1.2269·P > 0") && ok
-	return handcalc.Thread{D: d, Pitch: p}, ok
+	return bolt.Thread{D: d, Pitch: p}, ok
 }
 
 // checkBoltFit checks hole, washer and thread against the bolt diameter d.
 func (s *Spec) checkBoltFit(c *checker, d float64) {
 	b := s.Bolt
-	holeOK := c.number("bolt.hole", b.Hole, b.Hole > d, fmt.Sprintf("must exceed the bolt diameter %s mm", fnum(d)))
+	holeOK := c.number("bolt.hole", b.Hole, b.Hole > d, fmt.Sprintf("must exceed the bolt diameter %s mm", FormatNumber(d)))
 	if holeOK {
 		c.number("bolt.washer_outer", b.WasherOuter, b.WasherOuter > b.Hole,
-			fmt.Sprintf("must exceed the hole diameter %s mm", fnum(b.Hole)))
+			fmt.Sprintf("must exceed the hole diameter %s mm", FormatNumber(b.Hole)))
 	}
 	if !c.usable("bolt.thread", "bolt.thread_length") {
 		return
 	}
 	switch {
-	case b.Thread == threadFull && b.ThreadLength != nil:
+	case b.Thread == ThreadFull && b.ThreadLength != nil:
 		c.fail("bolt.thread_length", "bolt.thread_length = %s: applies only to thread = %q; a full thread runs the whole clamp length",
-			fnum(*b.ThreadLength), threadPartial)
-	case b.Thread == threadPartial && b.ThreadLength == nil:
+			FormatNumber(*b.ThreadLength), ThreadPartial)
+	case b.Thread == ThreadPartial && b.ThreadLength == nil:
 		c.fail("bolt.thread_length", "bolt.thread_length: missing (threaded length inside the clamp)")
-	case b.Thread == threadPartial && c.usable("flange.thickness", "bolt.washer_thickness"):
+	case b.Thread == ThreadPartial && c.usable("flange.thickness", "bolt.washer_thickness"):
 		lk := 2 * (s.Flange.Thickness + b.WasherThickness)
 		c.number("bolt.thread_length", *b.ThreadLength, *b.ThreadLength >= 0 && *b.ThreadLength <= lk,
-			fmt.Sprintf("must lie in [0, l_k = %s mm], l_k = 2(t_f + t_w)", fnum(lk)))
+			fmt.Sprintf("must lie in [0, l_k = %s mm], l_k = 2(t_f + t_w)", FormatNumber(lk)))
 	}
 }
 
@@ -256,15 +252,15 @@ func (s *Spec) checkRoom(c *checker, d Derived) {
 	if c.usable("flange.b", "shell.thickness", "flange.neck_radius") {
 		room := f.B - s.Shell.Thickness/2 - f.NeckRadius
 		c.number("flange.b", f.B, room >= dw/2,
-			fmt.Sprintf("leaves b − t/2 − neck_radius = %s mm between bolt axis and shell, less than the washer radius d_w/2 = %s mm", fnum(room), fnum(dw/2)))
+			fmt.Sprintf("leaves b − t/2 − neck_radius = %s mm between bolt axis and shell, less than the washer radius d_w/2 = %s mm", FormatNumber(room), FormatNumber(dw/2)))
 	}
 	if c.usable("flange.a") {
 		c.number("flange.a", f.A, f.A >= dw/2,
-			fmt.Sprintf("must be at least the washer radius d_w/2 = %s mm", fnum(dw/2)))
+			fmt.Sprintf("must be at least the washer radius d_w/2 = %s mm", FormatNumber(dw/2)))
 	}
 	if c.usable("tower.diameter", "tower.bolts", "flange.b") && d.SegmentWidth < dw {
 		c.fail("tower.bolts", "tower.bolts = %d: segment width c = 2π·R_b/n = %.1f mm is smaller than the washer outer diameter %s mm",
-			s.Tower.Bolts, d.SegmentWidth, fnum(dw))
+			s.Tower.Bolts, d.SegmentWidth, FormatNumber(dw))
 	}
 }
 
@@ -290,7 +286,7 @@ func (s *Spec) checkPreload(c *checker, d Derived) {
 	case p.Force != nil:
 		if c.positive("preload.force", *p.Force) {
 			c.number("preload.force", *p.Force, *p.Force <= d.YieldForce,
-				fmt.Sprintf("above the bolt's yield force A_s·f_yb = %s N (%.1f kN)", fnum(math.Round(d.YieldForce)), d.YieldForce/1e3))
+				fmt.Sprintf("above the bolt's yield force A_s·f_yb = %s N (%.1f kN)", FormatNumber(math.Round(d.YieldForce)), d.YieldForce/1e3))
 		}
 	case p.Fraction != nil:
 		if c.positive("preload.fraction", *p.Fraction) {
@@ -308,7 +304,7 @@ func (s *Spec) checkContact(c *checker) {
 	ct := s.Contact
 	c.nonNegative("contact.friction", ct.Friction)
 	c.nonNegative("contact.recess", ct.Recess)
-	c.oneOf("contact.recess_on", ct.RecessOn, recessBoth, recessUpper, recessLower)
+	c.oneOf("contact.recess_on", ct.RecessOn, RecessBoth, RecessUpper, RecessLower)
 	c.number("contact.taper", ct.Taper, math.Abs(ct.Taper) <= 5, "must lie within ±5° (a taper is a small tilt of the face)")
 	c.nonNegative("contact.parallel_gap", ct.ParallelGap)
 	if ct.Zones != nil && len(ct.Zones) == 0 {
@@ -336,10 +332,10 @@ func (s *Spec) checkZone(c *checker, i int) bool {
 	}
 	switch {
 	case z.From > z.To:
-		c.fail(p, "%s: from %s > to %s", p, fnum(z.From), fnum(z.To))
+		c.fail(p, "%s: from %s > to %s", p, FormatNumber(z.From), FormatNumber(z.To))
 		return false
 	case z.From == z.To:
-		c.fail(p, "%s: from %s = to %s: a zone needs from < to", p, fnum(z.From), fnum(z.To))
+		c.fail(p, "%s: from %s = to %s: a zone needs from < to", p, FormatNumber(z.From), FormatNumber(z.To))
 		return false
 	}
 	if !c.usable("flange.a", "flange.b", "shell.thickness") {
@@ -351,7 +347,7 @@ func (s *Spec) checkZone(c *checker, i int) bool {
 		x    float64
 	}{{"from", z.From}, {"to", z.To}} {
 		if e.x < lo || e.x > hi {
-			c.fail(p, "%s: %s %s lies outside the face x ∈ [%s, %s] = [−a, b + t/2]", p, e.name, fnum(e.x), fnum(lo), fnum(hi))
+			c.fail(p, "%s: %s %s lies outside the face x ∈ [%s, %s] = [−a, b + t/2]", p, e.name, FormatNumber(e.x), FormatNumber(lo), FormatNumber(hi))
 			return false
 		}
 	}
@@ -367,7 +363,7 @@ func (s *Spec) checkOverlap(c *checker, idx []int) {
 		if z[j].From < z[i].To {
 			lo, hi := min(i, j), max(i, j)
 			c.fail(fmt.Sprintf("contact.zones[%d]", hi), "contact.zones[%d] and contact.zones[%d] overlap: [%s, %s] and [%s, %s]",
-				lo, hi, fnum(z[lo].From), fnum(z[lo].To), fnum(z[hi].From), fnum(z[hi].To))
+				lo, hi, FormatNumber(z[lo].From), FormatNumber(z[lo].To), FormatNumber(z[hi].From), FormatNumber(z[hi].To))
 		}
 	}
 }
@@ -379,7 +375,7 @@ func (s *Spec) checkLoad(c *checker) {
 		c.fail("load.increments", "load.increments = %d: must be ≥ 1", l.Increments)
 	}
 	c.number("load.stop_drop", l.StopDrop, l.StopDrop > 0 && l.StopDrop < 1, "must lie in (0, 1)")
-	c.oneOf("load.end_rotation", l.EndRotation, rotationFixed, rotationFree)
+	c.oneOf("load.end_rotation", l.EndRotation, RotationFixed, RotationFree)
 	if l.ServiceForce != nil {
 		c.positive("load.service_force", *l.ServiceForce)
 	}
@@ -392,11 +388,11 @@ func (s *Spec) checkMesh(c *checker) {
 	m := s.Mesh
 	c.positive("mesh.size", m.Size)
 	c.number("mesh.refine", m.Refine, m.Refine > 0 && m.Refine <= 1, "must lie in (0, 1]")
-	c.oneOf("mesh.element", m.Element, elementQuad8, elementQuad4)
-	c.oneOf("analysis.plane", s.Analysis.Plane, planeStress, planeStrain)
-	c.oneOf("analysis.materials", s.Analysis.Materials, elastoplastic, elasticOnly)
+	c.oneOf("mesh.element", m.Element, ElementQuad8, ElementQuad4)
+	c.oneOf("analysis.plane", s.Analysis.Plane, PlaneStress, PlaneStrain)
+	c.oneOf("analysis.materials", s.Analysis.Materials, Elastoplastic, ElasticOnly)
 	c.number("fatigue.gamma_mf", s.Fatigue.GammaMf, s.Fatigue.GammaMf >= 1, "must be ≥ 1 (EN 1993-1-9 Table 3.1 recommends 1.00 to 1.35)")
-	c.oneOf("analysis.bolt_strength", s.Analysis.BoltStrength, boltMinimum, boltNominal)
+	c.oneOf("analysis.bolt_strength", s.Analysis.BoltStrength, BoltMinimum, BoltNominal)
 	for _, k := range []struct {
 		key string
 		v   float64
@@ -434,9 +430,9 @@ func (s *Spec) checkCurve(c *checker, p string, m MaterialSpec) {
 		return
 	}
 	if m.CurveKind == "" && c.usable(kind) {
-		c.fail(kind, "%s: missing (%q or %q, required with %s)", kind, curveTrue, curveEngineering, ck)
+		c.fail(kind, "%s: missing (%q or %q, required with %s)", kind, CurveTrue, CurveEngineering, ck)
 	} else {
-		c.oneOf(kind, m.CurveKind, curveTrue, curveEngineering)
+		c.oneOf(kind, m.CurveKind, CurveTrue, CurveEngineering)
 	}
 	if !c.usable(ck) {
 		return
@@ -466,9 +462,9 @@ func curvePointRule(m MaterialSpec, i int, pt []float64) string {
 	}
 	switch {
 	case !(eps > 0) || !(sig > 0):
-		return fmt.Sprintf("[%s, %s]: strain and stress must be > 0", fnum(eps), fnum(sig))
+		return fmt.Sprintf("[%s, %s]: strain and stress must be > 0", FormatNumber(eps), FormatNumber(sig))
 	case m.E > 0 && sig > m.E*eps*(1+1e-6):
-		return fmt.Sprintf("[%s, %s] lies above the elastic line σ = E·ε = %s MPa (strains are total strains)", fnum(eps), fnum(sig), fnum(m.E*eps))
+		return fmt.Sprintf("[%s, %s] lies above the elastic line σ = E·ε = %s MPa (strains are total strains)", FormatNumber(eps), FormatNumber(sig), FormatNumber(m.E*eps))
 	case i == 0:
 		return ""
 	}
@@ -478,162 +474,9 @@ func curvePointRule(m MaterialSpec, i int, pt []float64) string {
 	}
 	switch {
 	case eps <= prev[0]:
-		return fmt.Sprintf("strain %s must exceed the previous point's %s", fnum(eps), fnum(prev[0]))
-	case m.CurveKind == curveTrue && sig < prev[1]:
-		return fmt.Sprintf("stress %s falls below the previous point's %s; a true-stress curve must not fall", fnum(sig), fnum(prev[1]))
+		return fmt.Sprintf("strain %s must exceed the previous point's %s", FormatNumber(eps), FormatNumber(prev[0]))
+	case m.CurveKind == CurveTrue && sig < prev[1]:
+		return fmt.Sprintf("stress %s falls below the previous point's %s; a true-stress curve must not fall", FormatNumber(sig), FormatNumber(prev[1]))
 	}
 	return ""
-}
-
-// runValidate is `flangeseg validate MODEL.toml`.
-func runValidate(args []string, stdout, stderr io.Writer) int {
-	fs := flag.NewFlagSet("validate", flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	fs.Usage = func() { validateUsage(stderr) }
-	if err := fs.Parse(args); err != nil {
-		return parseExit(err)
-	}
-	if fs.NArg() != 1 {
-		fmt.Fprintln(stderr, "flangeseg validate: want one model file; run 'flangeseg validate --help'")
-		return exitBadInput
-	}
-	path := fs.Arg(0)
-	s, ok := loadOrReport(path, "validate", stderr)
-	if !ok {
-		return exitBadInput
-	}
-	if err := printModel(stdout, path, s); err != nil {
-		fmt.Fprintf(stderr, "flangeseg validate: %v\n", err)
-		return exitBadInput
-	}
-	return exitOK
-}
-
-// loadOrReport loads a model file; if it cannot, it writes every error
-// (an invalid model: each broken rule and their count) to stderr and
-// reports false.
-func loadOrReport(path, command string, stderr io.Writer) (*Spec, bool) {
-	s, err := loadSpec(path)
-	var me *modelError
-	switch {
-	case errors.As(err, &me):
-		fmt.Fprintln(stderr, err)
-		fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.errs), plural(len(me.errs), "error", "errors"))
-		return nil, false
-	case err != nil:
-		fmt.Fprintf(stderr, "flangeseg %s: %v\n", command, err)
-		return nil, false
-	}
-	return s, true
-}
-
-func plural(n int, one, many string) string {
-	if n == 1 {
-		return one
-	}
-	return many
-}
-
-func validateUsage(w io.Writer) {
-	fmt.Fprint(w, `Usage: flangeseg validate MODEL.toml
-
-Reads a model file strictly, fills in the defaults and checks every value.
-A valid model is printed with all defaults filled in (the form a run keeps
-as model.resolved.toml), followed by the quantities derived from it (bolt
-areas and strengths, preload, segment width, strip thicknesses, ring-spring
-stiffness, shell decay length 3/β) and any warnings. An invalid model gives
-every error at once on stderr, one per line, prefixed with the file name:
-the key, its value and the rule it breaks. Nothing is written to disk.
-
-Units in the file: mm, N, MPa, degrees. Zones are numbered from 0 in
-messages (contact.zones[0] is the first).
-
-Defaults of the keys a file may leave out:
-`)
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	for _, k := range keyDefaults() {
-		fmt.Fprintf(tw, "  %s\t%s\n", k.key, k.text)
-	}
-	tw.Flush()
-	fmt.Fprint(w, `
-Built-in materials (no [materials] table needed): S235, S275, S355, S420,
-S460 (E = 210000 MPa, ν = 0.3, yield strength by thickness per EN 10025)
-and, for bolt.material, the bolt grades 8.8, 10.9, 12.9. A [materials.NAME]
-table defines a material (E, nu, optionally curve and curve_kind) and takes
-precedence over a built-in one of the same name.
-
-Exit codes: 0 the model is valid, 2 it is invalid or cannot be read.
-`)
-}
-
-// printModel writes the resolved model, its derived quantities and the
-// warnings.
-func printModel(w io.Writer, path string, s *Spec) error {
-	resolved, err := s.resolvedTOML()
-	if err != nil {
-		return err
-	}
-	d := s.derive()
-	fmt.Fprintf(w, "%s: %s\n\nResolved model (every default filled in):\n\n%s\n", path, s.Title, resolved)
-	fmt.Fprintln(w, "Derived quantities:")
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	for _, r := range derivedRows(s, d) {
-		fmt.Fprintf(tw, "  %s\t%s\t%s\n", r[0], r[1], r[2])
-	}
-	tw.Flush()
-	fmt.Fprintln(w)
-	if len(d.Warnings) == 0 {
-		fmt.Fprintln(w, "Warnings: none")
-	} else {
-		fmt.Fprintln(w, "Warnings:")
-		for _, m := range d.Warnings {
-			fmt.Fprintf(w, "  - %s\n", m)
-		}
-	}
-	fmt.Fprintln(w, "model is valid")
-	return nil
-}
-
-// g5 formats a value to five significant digits.
-func g5(x float64) string { return fmt.Sprintf("%.5g", x) }
-
-func kN(x float64) string { return fmt.Sprintf("%.1f", x/1e3) }
-
-// derivedRows lists the derived quantities as label, value, unit.
-func derivedRows(s *Spec, d Derived) [][3]string {
-	rows := [][3]string{
-		{"bolt diameter d, pitch P", g5(d.D) + ", " + g5(d.Pitch), "mm"},
-		{"nominal area A = π·d²/4", g5(d.NominalArea), "mm²"},
-		{"stress area A_s (ISO 898-1)", g5(d.StressArea), "mm²"},
-		{"nominal f_ub, f_yb of grade " + s.Bolt.Grade, g5(d.Fub) + ", " + g5(d.Fyb), "MPa"},
-		{"design preload F_p,C = 0.7·f_ub·A_s", kN(d.DesignPreload), "kN"},
-		{"yield force A_s·f_yb", kN(d.YieldForce), "kN"},
-	}
-	if s.Preload.NutTurn != nil {
-		rows = append(rows, [3]string{fmt.Sprintf("preload shortening (nut turn %s° · P/360°)", fnum(*s.Preload.NutTurn)), g5(d.PreloadShortening), "mm"})
-	} else {
-		rows = append(rows, [3]string{"target preload F_p", kN(d.PreloadForce), "kN"})
-	}
-	rows = append(rows, [][3]string{
-		{"bolt circle radius R_b = D/2 − b", g5(d.BoltCircleRadius), "mm"},
-		{"segment width c = 2π·R_b/n", g5(d.SegmentWidth), "mm"},
-		{"clamp length l_k = 2(t_f + t_w)", g5(d.ClampLength), "mm"},
-		{"thread, shank inside the clamp", g5(d.ThreadInClamp) + ", " + g5(d.ShankInClamp), "mm"},
-		{"strip thickness: shell and flange (c)", g5(d.ShellStrip), "mm"},
-		{"strip thickness: hole band (c − d_h)", g5(d.HoleBandStrip), "mm"},
-		{"bolt strip width h = (√3/2)·d", g5(d.BoltWidth), "mm"},
-		{"strip thickness: shank (A/h), thread (A_s/h)", g5(d.ShankStrip) + ", " + g5(d.ThreadStrip), "mm"},
-		{"strip thickness: bearing t_b = π(d_w² − d_h²)/(4(d_w − d_h))", g5(d.BearingStrip), "mm"},
-		{"yield strength of shell, flange", yieldText(d.ShellYield) + ", " + yieldText(d.FlangeYield), "MPa"},
-		{"ring-spring stiffness E·t/R² (per unit wall area)", g5(d.RingSpring), "N/mm³"},
-		{"shell decay length 1/β, 3/β", g5(d.DecayLength) + ", " + g5(d.ThreeDecayLengths), "mm"},
-	}...)
-	return rows
-}
-
-func yieldText(fy float64) string {
-	if fy == 0 {
-		return "elastic"
-	}
-	return g5(fy)
 }

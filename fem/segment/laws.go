@@ -1,8 +1,9 @@
-package main
+package segment
 
 import (
 	"fmt"
 
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/material"
 	"flangeseg/mesh"
 )
@@ -10,17 +11,17 @@ import (
 // Each part gets its own law even where shell and flange share a grade:
 // the yield strength of a built-in steel depends on the plate thickness
 // (EN 10025-2), so the mesh regions carry the part in their material name.
-func (s *Spec) partMaterials() mesh.FlangeMaterials {
+func partMaterials(s *modelfile.Spec) mesh.FlangeMaterials {
 	return mesh.FlangeMaterials{
 		Shell:  "shell " + s.Shell.Material,
 		Flange: "flange " + s.Flange.Material,
-		Bolt:   "bolt " + s.boltMaterial(),
+		Bolt:   "bolt " + s.BoltMaterial(),
 	}
 }
 
-// laws returns the law of every part, keyed as partMaterials names them.
-func (s *Spec) laws() (map[string]material.Law, error) {
-	parts := s.partMaterials()
+// lawsOf returns the law of every part, keyed as partMaterials names them.
+func lawsOf(s *modelfile.Spec) (map[string]material.Law, error) {
+	parts := partMaterials(s)
 	laws := map[string]material.Law{}
 	for _, p := range []struct {
 		key, name string
@@ -29,9 +30,9 @@ func (s *Spec) laws() (map[string]material.Law, error) {
 	}{
 		{parts.Shell, s.Shell.Material, s.Shell.Thickness, false},
 		{parts.Flange, s.Flange.Material, s.Flange.Thickness, false},
-		{parts.Bolt, s.boltMaterial(), 0, true},
+		{parts.Bolt, s.BoltMaterial(), 0, true},
 	} {
-		law, err := s.law(p.name, p.thickness, p.bolt)
+		law, err := law(s, p.name, p.thickness, p.bolt)
 		if err != nil {
 			return nil, fmt.Errorf("material %s: %w", p.name, err)
 		}
@@ -46,13 +47,13 @@ func (s *Spec) laws() (map[string]material.Law, error) {
 // curve at the plate thickness t (EN 10025-2), or the bolt property
 // class's curve (ISO 898-1 minimum or EN 1993-1-8 nominal values), with
 // the ductile damage indicator of its family.
-func (s *Spec) law(name string, t float64, bolt bool) (material.Law, error) {
-	info, err := s.material(name, t)
+func law(s *modelfile.Spec, name string, t float64, bolt bool) (material.Law, error) {
+	info, err := s.Material(name, t)
 	if err != nil {
 		return nil, err
 	}
 	el := material.Elastic{E: info.E, Nu: info.Nu}
-	if s.Analysis.Materials == elasticOnly {
+	if s.Analysis.Materials == modelfile.ElasticOnly {
 		return el, nil
 	}
 	necking := material.DefaultNecking()
@@ -85,7 +86,7 @@ func (s *Spec) law(name string, t float64, bolt bool) (material.Law, error) {
 		}
 	case bolt:
 		values := material.BoltMinimum
-		if s.Analysis.BoltStrength == boltNominal {
+		if s.Analysis.BoltStrength == modelfile.BoltNominal {
 			values = material.BoltNominal
 		}
 		st, err := material.BoltStrength(name, values)

@@ -1,0 +1,146 @@
+package segment
+
+import (
+	"context"
+
+	"flangeseg/contact"
+	"flangeseg/fem"
+	"flangeseg/fem/segment/figures"
+	"flangeseg/fem/segment/modelfile"
+	"flangeseg/fem/sparse"
+	"flangeseg/mesh"
+	"flangeseg/post/handcalc"
+)
+
+// Segment is one bolt segment turned into a finite-element model, ready to
+// run (the analysis's own state is the unexported segment of analysis.go).
+type Segment struct{ g *segment }
+
+// Build meshes the joint of a valid model and sets up the finite-element
+// model (supports, ring springs, the bolt's tie, the contact pairs, the
+// loaded edge) and the hand methods beside it.
+func Build(spec *modelfile.Spec) (*Segment, error) {
+	g, err := buildSegment(spec, spec.Derive())
+	if err != nil {
+		return nil, err
+	}
+	return &Segment{g}, nil
+}
+
+// Spec is the model the segment was built from; do not modify it.
+func (s *Segment) Spec() *modelfile.Spec { return s.g.spec }
+
+// Derived are the model's derived quantities.
+func (s *Segment) Derived() modelfile.Derived { return s.g.der }
+
+// Mesh is the strip model's mesh.
+func (s *Segment) Mesh() *mesh.Mesh { return s.g.mesh }
+
+// Model is the finite-element model.
+func (s *Segment) Model() *fem.Model { return s.g.model }
+
+// Hand are the hand methods' results for the joint.
+func (s *Segment) Hand() handcalc.Results { return s.g.hand }
+
+// Zones are the contact zones of the flange face whose contact force the
+// history records (Row.ZoneForce, in this order): the model's
+// contact.zones, or the whole face as one zone.
+func (s *Segment) Zones() []Zone {
+	out := make([]Zone, len(s.g.zones))
+	for i, z := range s.g.zones {
+		out[i] = Zone{Name: z.name, From: z.x0, To: z.x1}
+	}
+	return out
+}
+
+// Zone is a band of the flange face, x ∈ [From, To] in mm.
+type Zone struct {
+	Name     string // "face", or "zone1", "zone2" … for contact.zones
+	From, To float64
+}
+
+// Penalty is the contact penalty stiffness, MPa/mm.
+func (s *Segment) Penalty() float64 { return s.g.penalty }
+
+// SliceLength is the length of the bolt slice the preload shortens, mm.
+func (s *Segment) SliceLength() float64 { return s.g.slice }
+
+// Options are the choices of a run that do not come from the model file.
+// Every callback may be nil; they are called from the goroutine that runs.
+type Options struct {
+	// Progress receives the increments of the tension stage done and
+	// planned, after each converged increment.
+	Progress func(done, all int)
+	// Log receives the solver's lines: preload steps, increments,
+	// halvings and Newton iterations.
+	Log func(line string)
+	// Inspect sees the first assembled tangent and residual.
+	Inspect func(k *sparse.Matrix, rhs []float64) error
+	// Keep says which increments keep their fields (nil: every one; the
+	// preload and the last increment are always kept).
+	Keep func(increment int) bool
+}
+
+// Result is what a run produced, up to its last converged increment.
+type Result struct {
+	Segment *Segment
+	// History has one row per converged state: the preload, then each
+	// increment of the tension stage.
+	History []figures.Row
+	// States are the converged states kept for field output.
+	States []State
+	// Figures are the joint figures and the failure mechanism read off
+	// the history (Figures.FailureLocation names the mechanism).
+	Figures figures.Joint
+	Preload fem.PreloadResult
+	// Ending says why the tension stage ended; Failure is non-nil when
+	// the run stopped before its end (a stage did not converge).
+	Ending    string
+	Failure   error
+	Timing    fem.Timing
+	Equations int
+}
+
+// State is a converged state kept for field output.
+type State struct {
+	Label    string // "preload", "increment 7" …
+	Row      figures.Row
+	Solution *fem.Solution
+	// Contacts are the node results of the contact pairs "faces",
+	// "head" and "nut".
+	Contacts map[string][]contact.NodeResult
+	// Plastic and Damage are the equivalent plastic strain and damage
+	// indicator per element and integration point; nil with elastic laws,
+	// and nil for an element whose law keeps none.
+	Plastic, Damage [][]float64
+}
+
+// Run builds the segment of a valid model and analyses it: the preload,
+// then the tension stage to its end. A stage that does not converge ends
+// the run with the increments that did (Result.Failure); a model that
+// cannot be built, or ctx ending (checked before the preload and after
+// each increment), is returned as the error.
+func Run(ctx context.Context, spec *modelfile.Spec, opt Options) (*Result, error) {
+	g, err := Build(spec)
+	if err != nil {
+		return nil, err
+	}
+	return g.Run(ctx, opt)
+}
+
+// Run analyses the segment, as Run does. A Segment runs once.
+func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
+	g := s.g
+	a, err := g.analyse(analyseOptions{inspect: opt.Inspect, log: opt.Log, progress: opt.Progress, keep: opt.Keep,
+		stop: ctx.Err})
+	if err != nil {
+		return nil, err
+	}
+	r := &Result{Segment: s, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure,
+		Timing: a.timing, Equations: a.equation, Figures: jointFigures(g, a)}
+	for _, st := range a.states {
+		r.States = append(r.States, State{Label: st.label, Row: st.row, Solution: st.solution, Contacts: st.contacts,
+			Plastic: st.history.plastic, Damage: st.history.damage})
+	}
+	return r, nil
+}
