@@ -44,6 +44,18 @@ func (p *Pair) ResetFlips() {
 	p.held = nil
 }
 
+// Flipping counts the free points that have changed status at least
+// minFlips times in the current solve.
+func (p *Pair) Flipping(minFlips int) int {
+	n := 0
+	for i := range p.points {
+		if (p.held == nil || p.held[i] == unpaired) && int(p.flips[i]) >= minFlips && p.trial[i].status != unpaired {
+			n++
+		}
+	}
+	return n
+}
+
 // Freeze holds every point that has changed status at least minFlips
 // times in the current solve at the status it took in the last Evaluate,
 // and returns how many points are held in all. A held point keeps its

@@ -30,6 +30,7 @@ type ContactPair interface {
 	// ResetFlips, Freeze and Thaw hold points whose status keeps
 	// changing within a solve (see contact.Pair.Freeze).
 	ResetFlips()
+	Flipping(minFlips int) int
 	Freeze(minFlips int) int
 	Thaw(cur []contact.Point) float64
 	Correct(cur []contact.Point, tol float64) (worst float64, changed int)
@@ -485,9 +486,18 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			return it - 1, s.watch.failure(it-1, rel, "the residual does not fall below the tolerance")
 		}
 		if it >= freezeAfter && rel < freezeBelow && s.corrections <= maxThaws {
-			n := 0
+			// Freezing suits a few points chattering at a kink; where many
+			// flip, the active set is still being found, and freezing it
+			// would only fix a wrong guess.
+			candidates := 0
 			for _, p := range s.pairs {
-				n += p.Freeze(2)
+				candidates += p.Flipping(2)
+			}
+			n := 0
+			if candidates <= maxFreeze {
+				for _, p := range s.pairs {
+					n += p.Freeze(2)
+				}
 			}
 			if n > 0 && !s.anyFrozen {
 				s.log(fmt.Sprintf("  %d contact points frozen at their status", n))
@@ -627,7 +637,7 @@ const (
 	krylovSteps     = 12
 	// coupledIterations: Newton iterations of one solve with the full
 	// tangent before the sliding couplings are dropped.
-	coupledIterations = 30
+	coupledIterations = 8
 	// freezeAfter: the Newton iteration of a solve from which points that
 	// have changed status twice are frozen; maxThaws: how often frozen
 	// points may be released for violating their law before freezing
@@ -637,6 +647,7 @@ const (
 	// 570 kN preload.
 	freezeAfter     = 4
 	freezeBelow     = 1e-2
+	maxFreeze       = 12
 	maxThaws        = 6
 	frozenTolerance = 10
 )

@@ -123,7 +123,7 @@ func runModel(job note.ModelJob, flags runFlags, stdout, stderr io.Writer) int {
 	}
 	printSummary(stdout, sum, dir, time.Since(start))
 	if res.Failure != nil {
-		fmt.Fprintf(stderr, "%s: the analysis stopped: %v\nresults up to the last converged increment are in %s\n", path, res.Failure, dir)
+		fmt.Fprintf(stderr, "%s: the analysis stopped: %v\n%s\nresults up to the last converged increment are in %s\n", path, res.Failure, res.Diagnosis, dir)
 		return exitAnalysis
 	}
 	return exitOK

@@ -95,8 +95,11 @@ type Result struct {
 	Preload fem.PreloadResult
 	// Ending says why the tension stage ended; Failure is non-nil when
 	// the run stopped before its end (a stage did not converge).
-	Ending    string
-	Failure   error
+	Ending  string
+	Failure error
+	// Diagnosis says in words, when Failure is set, what happened, where,
+	// what the out-of-balance force did and what to try.
+	Diagnosis string
 	Timing    fem.Timing
 	Equations int
 }
@@ -136,7 +139,7 @@ func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	r := &Result{Segment: s, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure,
+	r := &Result{Segment: s, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure, Diagnosis: a.diagnosis,
 		Timing: a.timing, Equations: a.equation, Figures: jointFigures(g, a)}
 	for _, st := range a.states {
 		r.States = append(r.States, State{Label: st.label, Row: st.row, Solution: st.solution, Contacts: st.contacts,

@@ -23,13 +23,15 @@ type state struct {
 
 // analysis is what a run produced, up to its last converged increment.
 type analysis struct {
-	rows     []figures.Row
-	states   []state
-	preload  fem.PreloadResult
-	ending   string // why the tension stage ended
-	failure  error  // non-nil if the analysis stopped before its end
-	timing   fem.Timing
-	equation int
+	rows    []figures.Row
+	states  []state
+	preload fem.PreloadResult
+	ending  string // why the tension stage ended
+	failure error  // non-nil if the analysis stopped before its end
+	// diagnosis says in words what stopped it and what to try.
+	diagnosis string
+	timing    fem.Timing
+	equation  int
 }
 
 type analyseOptions struct {
@@ -66,6 +68,7 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		if fem.IsNotConverged(err) {
 			res.failure = fmt.Errorf("preload: %w", err)
 			res.ending = "the preload stage did not converge"
+			res.diagnosis = g.diagnose("preload", "the unloaded state", err)
 			res.timing = s.Timing
 			return res, nil
 		}
@@ -117,6 +120,7 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		}
 		res.failure = err
 		res.ending = "the tension stage did not converge"
+		res.diagnosis = g.diagnose("tension", lastState(res.rows), err)
 	}
 	return res, nil
 }
@@ -127,21 +131,16 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 // are repeated until the bolt force holds its target within 0.5 %. It
 // returns the edge position.
 //
-// While the bolt is tightened the washers are held pressed (a Newton
-// iterate cannot lift the bolt off both and leave it floating) and take
-// no friction in the section's plane: the turning nut slides round the
-// circumference, which spends the friction there, and a radial friction
-// force at the low pressures of the first steps only makes Newton's
-// method chase the slip direction. Friction holds from the tightened
-// state on.
+// While the bolt is tightened the washers are held pressed, so a Newton
+// iterate cannot lift the bolt off both and leave it floating. (They keep
+// their friction: without it nothing but the tie at the contact plane
+// would hold the bolt's rotation in the section's plane.)
 func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 	force := func() (float64, error) {
 		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
 		return f, err
 	}
-	if err := g.tighteningWashers(true); err != nil {
-		return 0, err
-	}
+	g.tighteningWashers(true)
 	target := g.der.PreloadForce
 	v := 0.0
 	for round := 0; round < 8; round++ {
@@ -173,9 +172,7 @@ func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 			return 0, fmt.Errorf("preload: the bolt force did not settle at %.1f kN with the shell end free", target/1e3)
 		}
 	}
-	if err := g.tighteningWashers(false); err != nil {
-		return 0, err
-	}
+	g.tighteningWashers(false)
 	if _, err := s.Equilibrium(); err != nil {
 		s.Revert()
 		return 0, fmt.Errorf("preload: the washers, let free after tightening: %w", err)
@@ -184,20 +181,11 @@ func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 	return v, nil
 }
 
-// tighteningWashers holds the washers pressed and frictionless while on
-// (see preload), and gives them back their law and friction after.
-func (g *segment) tighteningWashers(on bool) error {
-	mu := g.spec.Contact.Friction
-	if on {
-		mu = 0
-	}
-	for _, p := range []*contact.Pair{g.head, g.nut} {
-		p.SetBilateral(on)
-		if err := p.SetFriction(mu); err != nil {
-			return err
-		}
-	}
-	return nil
+// tighteningWashers holds the washers pressed while on (see preload) and
+// gives them back their own law after.
+func (g *segment) tighteningWashers(on bool) {
+	g.head.SetBilateral(on)
+	g.nut.SetBilateral(on)
 }
 
 // release moves the loaded edge, by secant steps from v, to the position
@@ -326,4 +314,14 @@ func (g *segment) keepState(s *fem.Solver, res *analysis, label string, row figu
 		"nut":   g.nut.NodeResults(cur),
 	}})
 	return nil
+}
+
+// lastState names the last converged state of the rows for a diagnosis.
+func lastState(rows []figures.Row) string {
+	last := rows[len(rows)-1]
+	name := "the preload"
+	if last.Increment > 0 {
+		name = fmt.Sprintf("increment %d", last.Increment)
+	}
+	return fmt.Sprintf("%s (u = %.3g mm, Z = %.4g kN)", name, last.U, last.Z/1e3)
 }

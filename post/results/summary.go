@@ -19,6 +19,7 @@ type Summary struct {
 	Converged bool              `json:"converged"`
 	Ending    string            `json:"ending"`
 	Failure   string            `json:"failure,omitempty"`
+	Diagnosis string            `json:"diagnosis,omitempty"`
 	Joint     figures.Joint     `json:"joint"`
 	Mesh      MeshSummary       `json:"mesh"`
 	Solver    SolverSummary     `json:"solver"`
@@ -71,6 +72,7 @@ func NewSummary(path string, r *segment.Result) Summary {
 	}
 	if r.Failure != nil {
 		s.Failure = r.Failure.Error()
+		s.Diagnosis = r.Diagnosis
 	}
 	return s
 }
