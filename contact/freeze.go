@@ -135,13 +135,15 @@ func (p *Pair) Correct(cur []Point, tol float64) (worst float64, changed int) {
 	return worst, changed
 }
 
-// SetBilateral makes every paired point of the pair keep the pressed
-// branch of the normal law (a tie in the normal direction that also holds
-// in tension; friction is unchanged) while on is true. A bolt's washers
-// are pressed throughout the tightening; holding them so while the
-// preload is applied keeps a Newton iterate from lifting the bolt off both
-// of them, which would leave it floating. Check the pressures afterwards.
-func (p *Pair) SetBilateral(on bool) { p.bilateral = on }
+// Glue holds every paired point of the pair on the pressed branch of the
+// normal law (a tie that also holds in tension) and, with friction, on the
+// sticking branch (an elastic tie along the face), while on is true. A
+// bolt's washers are pressed and do not slide while the bolt is tightened;
+// held so then, a Newton iterate can neither lift the bolt off both of
+// them and leave it floating nor make whole washers flip between sticking
+// and sliding at the low pressures of the first steps. Check the
+// tractions against the law afterwards (let go and find equilibrium).
+func (p *Pair) Glue(on bool) { p.glued = on }
 
 // SetFriction changes the Coulomb coefficient from the next evaluation
 // on. Points that have been pressed without friction keep as anchors the

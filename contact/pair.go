@@ -119,8 +119,8 @@ type Pair struct {
 	flips    []uint8
 	held     []status
 	lastSign []float64
-	// bilateral: see SetBilateral.
-	bilateral bool
+	// glued: see Glue.
+	glued bool
 }
 
 // gaussPoint is an integration point of the slave surface.

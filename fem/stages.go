@@ -289,6 +289,13 @@ func (p *eigenPath) predict(d float64) {
 	s.applyPrescribed()
 }
 
+// RestartRamp makes the next ramp start from the tangent's response to
+// its first change, as the first ramp does, instead of extrapolating the
+// increment before it.
+func (s *Solver) RestartRamp() {
+	s.before, s.lastStep, s.pendingStep = nil, 0, 0
+}
+
 // Prescribe holds dof d at its current value from now on: a support added
 // between stages, such as the loaded edge that the preload leaves free of
 // force and the tension stage then moves. The equations are numbered anew;
@@ -305,7 +312,7 @@ func (s *Solver) Prescribe(d Dof) error {
 		s.groups = append(s.groups, g)
 	}
 	s.seen = map[string]bool{}
-	s.before, s.lastStep, s.pendingStep = nil, 0, 0
+	s.RestartRamp()
 	s.couplings = s.couplings[:0]
 	s.forcesValid = false
 	return s.rebuild()

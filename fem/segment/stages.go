@@ -131,10 +131,11 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 // are repeated until the bolt force holds its target within 0.5 %. It
 // returns the edge position.
 //
-// While the bolt is tightened the washers are held pressed, so a Newton
-// iterate cannot lift the bolt off both and leave it floating. (They keep
-// their friction: without it nothing but the tie at the contact plane
-// would hold the bolt's rotation in the section's plane.)
+// While the bolt is tightened the washers are held pressed and sticking
+// (contact.Pair.Glue), so a Newton iterate can neither lift the bolt off
+// both and leave it floating nor make whole washers flip between sticking
+// and sliding at the low pressures of the first steps. Then they are let
+// go and equilibrium found with their own law.
 func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 	force := func() (float64, error) {
 		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
@@ -181,35 +182,36 @@ func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 	return v, nil
 }
 
-// tighteningWashers holds the washers pressed while on (see preload) and
-// gives them back their own law after.
+// tighteningWashers glues the washers while on (see preload) and gives
+// them back their own law after.
 func (g *segment) tighteningWashers(on bool) {
-	g.head.SetBilateral(on)
-	g.nut.SetBilateral(on)
+	g.head.Glue(on)
+	g.nut.Glue(on)
 }
 
 // release moves the loaded edge, by secant steps from v, to the position
-// where its reaction vanishes.
+// where its reaction vanishes. Each step is a ramp of one increment
+// (started from the tangent's response, halved where it fails) and at most
+// four times the one before, so a first secant estimate far off — the
+// joint stiffens or softens as the faces settle — is approached in steps
+// rather than in one jump.
 func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
-	m := g.model
 	at := func(x float64) (float64, error) {
-		if err := m.SetValue(g.edge.Axial, x); err != nil {
+		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: 1}, func(fem.Increment) (bool, error) { return false, nil })
+		if err != nil {
 			return 0, err
 		}
-		if _, err := s.Equilibrium(); err != nil {
-			s.Revert()
-			return 0, err
-		}
-		s.Commit()
 		return s.Reaction(g.edge.Axial)
 	}
-	z0, err := at(v)
+	defer s.RestartRamp()
+	z0, err := s.Reaction(g.edge.Axial)
 	if err != nil {
 		return 0, err
 	}
 	scale := math.Max(math.Abs(g.der.PreloadForce), g.der.DesignPreload)
-	v1 := v - 1e-3
-	for it := 0; it < 20; it++ {
+	step := -1e-3
+	v1 := v + step
+	for it := 0; it < 40; it++ {
 		if math.Abs(z0) <= 1e-7*scale {
 			return v, nil
 		}
@@ -220,7 +222,11 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 		if z1 == z0 {
 			return 0, fmt.Errorf("preload: the loaded edge does not respond")
 		}
-		v, v1, z0 = v1, v1-z1*(v1-v)/(z1-z0), z1
+		next := v1 - z1*(v1-v)/(z1-z0)
+		if limit := 4 * math.Abs(v1-v); math.Abs(next-v1) > limit {
+			next = v1 + math.Copysign(limit, next-v1)
+		}
+		v, v1, z0 = v1, next, z1
 	}
 	return 0, fmt.Errorf("preload: the shell end did not come free of force")
 }
