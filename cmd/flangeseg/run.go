@@ -194,6 +194,9 @@ func printSummary(w io.Writer, s results.Summary, dir string, took time.Duration
 	if j.OpenAfterPreload {
 		opening = "0 kN: the shell-side corner is open (gap > 1 µm) after preload already"
 	}
+	if c := j.Closure; c != nil {
+		fmt.Fprintf(w, "  face after preload    %s\n", c.Note)
+	}
 	fmt.Fprintf(w, "  opening load          %s\n", opening)
 	fmt.Fprintf(w, "  decompression load    %s\n", kNOr(j.DecompressionKN))
 	fmt.Fprintf(w, "  largest Z             %.1f kN at u = %.3f mm (%s)\n", j.PeakLoadKN, j.DisplacementPeakMM, s.Ending)

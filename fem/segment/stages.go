@@ -30,8 +30,9 @@ type analysis struct {
 	failure error  // non-nil if the analysis stopped before its end
 	// diagnosis says in words what stopped it and what to try.
 	diagnosis string
-	timing    fem.Timing
-	equation  int
+
+	timing   fem.Timing
+	equation int
 }
 
 type analyseOptions struct {

@@ -111,6 +111,12 @@ func (n *runNote) preload() report.Quantities {
 		report.Quantity{Symbol: "σ_p", Name: "bolt stress after preload F_p/A_s", Value: num(j.PreloadReachedKN*1e3/d.StressArea, "MPa"), Source: srcDerived + " and the FE preload"},
 		report.Quantity{Name: "preload reached / F_p,C", Value: report.NumDigits(j.PreloadReachedKN*1e3/d.DesignPreload, report.Dimensionless, 6), Source: srcDerived + " and the FE preload"},
 	)
+	if c := j.Closure; c != nil {
+		rows = append(rows,
+			report.Quantity{Name: "initial gap between the faces where they are meant to touch, largest", Value: num(c.InitialGapMM, "mm"), Source: "contact.taper, contact.parallel_gap"},
+			report.Quantity{Name: "gap left open after preload, largest", Value: num(c.GapLeftMM, "mm"), Source: srcFE + fmt.Sprintf(", at x = %.1f mm; ", c.GapLeftAtXMM) + c.Note},
+		)
+	}
 	return report.Quantities{Caption: "Preload of the bolt", Rows: rows}
 }
 

@@ -15,9 +15,12 @@ type Joint struct {
 	PreloadEigenstrain float64  `json:"preload_slice_strain"`
 	OpeningLoadKN      *float64 `json:"opening_load_kN"`
 	OpenAfterPreload   bool     `json:"open_after_preload"`
-	DecompressionKN    *float64 `json:"decompression_load_kN"`
-	ReferenceLoadKN    float64  `json:"reference_load_kN"`
-	ReferenceFrom      string   `json:"reference_load_from"`
+	// Closure describes how the preload closed an initial gap between the
+	// faces (taper, parallel gap); nil when the faces start closed.
+	Closure         *Closure `json:"face_closure,omitempty"`
+	DecompressionKN *float64 `json:"decompression_load_kN"`
+	ReferenceLoadKN float64  `json:"reference_load_kN"`
+	ReferenceFrom   string   `json:"reference_load_from"`
 
 	StiffnessTangentZero    float64  `json:"stiffness_tangent_at_zero_kN_per_mm"`
 	StiffnessToOpening      *float64 `json:"stiffness_secant_to_opening_kN_per_mm"`
@@ -200,4 +203,19 @@ func curveFigures(rows []Row, f Joint, stub float64) Joint {
 		}
 	}
 	return f
+}
+
+// Closure is what the preload did to an initial gap between the faces
+// where they are meant to touch (the defined contact zones, or the whole
+// face). A 2D strip has no neighbouring segments: nothing but the flanges'
+// and the shell's own bending resists closing the gap, where in a ring the
+// segments on either side hold it open too, so the strip closes more of it,
+// for less bolt force, than the ring would.
+type Closure struct {
+	InitialGapMM float64 `json:"initial_gap_max_mm"`
+	// GapLeftMM is the largest gap left open after the preload, at x =
+	// GapLeftAtXMM.
+	GapLeftMM    float64 `json:"gap_left_after_preload_mm"`
+	GapLeftAtXMM float64 `json:"gap_left_at_x_mm"`
+	Note         string  `json:"note"`
 }
