@@ -136,14 +136,24 @@ func (p *Pair) Correct(cur []Point, tol float64) (worst float64, changed int) {
 }
 
 // Glue holds every paired point of the pair on the pressed branch of the
-// normal law (a tie that also holds in tension) and, with friction, on the
-// sticking branch (an elastic tie along the face), while on is true. A
-// bolt's washers are pressed and do not slide while the bolt is tightened;
-// held so then, a Newton iterate can neither lift the bolt off both of
-// them and leave it floating nor make whole washers flip between sticking
-// and sliding at the low pressures of the first steps. Check the
-// tractions against the law afterwards (let go and find equilibrium).
-func (p *Pair) Glue(on bool) { p.glued = on }
+// normal law (a tie that also holds in tension) while on is true, and with
+// stick also on the sticking branch of friction (an elastic tie along the
+// face; without friction the points stay pressed). A bolt's washers are
+// pressed throughout the tightening; held so then, a Newton iterate
+// cannot lift the bolt off both and leave it floating, and with stick
+// whole washers cannot flip between sticking and sliding at the low
+// pressures of the first steps. Check the tractions against the law
+// afterwards: let go and find equilibrium.
+func (p *Pair) Glue(on, stick bool) {
+	switch {
+	case !on:
+		p.glued = unpaired
+	case stick && p.set.Friction > 0:
+		p.glued = sticking
+	default:
+		p.glued = pressed
+	}
+}
 
 // SetFriction changes the Coulomb coefficient from the next evaluation
 // on. Points that have been pressed without friction keep as anchors the

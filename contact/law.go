@@ -194,8 +194,8 @@ func (p *Pair) evalPoint(i int, cur []Point, st *pointState) pointEval {
 	e.keep = p.slidAnchor(&e, cur, 0)
 	e.status = open
 	held := p.heldStatus(i)
-	if held == unpaired && p.glued {
-		held = sticking // pressed as well; frictionless points stay pressed
+	if held == unpaired && p.glued != unpaired {
+		held = p.glued
 	}
 	trial := st.lambdaN - p.set.Penalty*e.g
 	if held == open || (held == unpaired && trial < 0) {

@@ -119,8 +119,8 @@ type Pair struct {
 	flips    []uint8
 	held     []status
 	lastSign []float64
-	// glued: see Glue.
-	glued bool
+	// glued: the status Glue holds every point at (unpaired: none).
+	glued status
 }
 
 // gaussPoint is an integration point of the slave surface.

@@ -473,7 +473,22 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		// Frozen points keep their branch, so the sliding couplings of the
 		// frozen sliding points stay valid: keep them, for quadratic steps.
 		s.coupled = it <= coupledIterations || s.anyFrozen
-		stuck := math.Abs(nr/prev-1) < 0.05 || nr > 10*prev || ((s.m.HasHistory() || !s.coupled) && nr > prev)
+		// A rise that comes with contact points changing status, in the
+		// first coupledIterations, is the active-set search at work (the
+		// step found a better set, its residual is that of the new set);
+		// cutting it back would only slow the search. Later, rises are cut
+		// back: by then a set that keeps changing is cycling.
+		changes := 0
+		for _, p := range s.pairs {
+			changes += len(p.Changes())
+		}
+		// A tenfold rise with contact is a step that pushed the bodies far
+		// into each other (a large contact force that is no equilibrium of
+		// anything); without contact it can be the right step of a large
+		// rotation.
+		overshoot := len(s.pairs) > 0 && nr > 10*prev
+		searching := changes > 0 && s.coupled
+		stuck := math.Abs(nr/prev-1) < 0.05 || overshoot || ((s.m.HasHistory() || !s.coupled) && nr > prev && !searching)
 		if stuck && step > 1.0/64 {
 			step /= 2
 			s.retreat(last, du, step)

@@ -33,6 +33,9 @@ type segment struct {
 	penalty float64
 	tie     fem.Dof // the bolt's lateral tie at the contact plane
 	laws    map[string]material.Law
+	// stickWashers: the washers are held sticking, not only pressed,
+	// while the bolt is tightened (see preload).
+	stickWashers bool
 }
 
 // nearestOnSet is the node of a node set nearest to x (−1 if none).

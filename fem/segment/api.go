@@ -100,8 +100,12 @@ type Result struct {
 	// Diagnosis says in words, when Failure is set, what happened, where,
 	// what the out-of-balance force did and what to try.
 	Diagnosis string
-	Timing    fem.Timing
-	Equations int
+	// WashersHeldSticking: the preload with sliding washers failed and
+	// the run was made again with the washers held sticking while the
+	// bolt was tightened (see the preload stage).
+	WashersHeldSticking bool
+	Timing              fem.Timing
+	Equations           int
 }
 
 // State is a converged state kept for field output.
@@ -134,16 +138,52 @@ func Run(ctx context.Context, spec *modelfile.Spec, opt Options) (*Result, error
 // Run analyses the segment, as Run does. A Segment runs once.
 func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 	g := s.g
-	a, err := g.analyse(analyseOptions{inspect: opt.Inspect, log: opt.Log, progress: opt.Progress, keep: opt.Keep,
-		stop: ctx.Err})
+	aopt := analyseOptions{inspect: opt.Inspect, log: opt.Log, progress: opt.Progress, keep: opt.Keep, stop: ctx.Err}
+	a, err := g.analyse(aopt)
 	if err != nil {
 		return nil, err
 	}
+	if a.failure != nil && len(a.rows) == 0 {
+		// The preload failed: once more, from a fresh model, with the
+		// washers held sticking while the bolt is tightened.
+		if opt.Log != nil {
+			opt.Log("preload failed; once more with the washers held sticking while the bolt is tightened")
+		}
+		again, err := buildSegment(g.spec, g.der)
+		if err != nil {
+			return nil, err
+		}
+		again.stickWashers = true
+		b, err := again.analyse(aopt)
+		if err != nil {
+			return nil, err
+		}
+		if b.failure == nil || len(b.rows) > 0 {
+			b.timing = addTiming(a.timing, b.timing)
+			b.retried = true
+			s.g, g, a = again, again, b
+		}
+	}
 	r := &Result{Segment: s, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure, Diagnosis: a.diagnosis,
-		Timing: a.timing, Equations: a.equation, Figures: jointFigures(g, a)}
+		WashersHeldSticking: a.retried,
+		Timing:              a.timing, Equations: a.equation, Figures: jointFigures(g, a)}
 	for _, st := range a.states {
 		r.States = append(r.States, State{Label: st.label, Row: st.row, Solution: st.solution, Contacts: st.contacts,
 			Plastic: st.history.plastic, Damage: st.history.damage})
 	}
 	return r, nil
+}
+
+// addTiming sums the solver statistics of two attempts.
+func addTiming(a, b fem.Timing) fem.Timing {
+	b.Assembly += a.Assembly
+	b.Contact += a.Contact
+	b.Factorization += a.Factorization
+	b.Analysis += a.Analysis
+	b.Solve += a.Solve
+	b.Iterations += a.Iterations
+	b.Factorizations += a.Factorizations
+	b.Analyses += a.Analyses
+	b.KrylovSteps += a.KrylovSteps
+	return b
 }

@@ -30,6 +30,9 @@ type analysis struct {
 	failure error  // non-nil if the analysis stopped before its end
 	// diagnosis says in words what stopped it and what to try.
 	diagnosis string
+	// retried: made a second time with the washers held sticking while
+	// the bolt was tightened.
+	retried bool
 
 	timing   fem.Timing
 	equation int
@@ -132,11 +135,14 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 // are repeated until the bolt force holds its target within 0.5 %. It
 // returns the edge position.
 //
-// While the bolt is tightened the washers are held pressed and sticking
-// (contact.Pair.Glue), so a Newton iterate can neither lift the bolt off
-// both and leave it floating nor make whole washers flip between sticking
-// and sliding at the low pressures of the first steps. Then they are let
-// go and equilibrium found with their own law.
+// While the bolt is tightened the washers are held pressed
+// (contact.Pair.Glue), so a Newton iterate cannot lift the bolt off both
+// and leave it floating; after the first round they follow their own law.
+// Where that preload fails, Segment.Run tries once more with the washers
+// also held sticking while tightened (stickWashers), which keeps whole
+// washers from flipping between sticking and sliding at the low pressures
+// of the first steps, at the price of a locked-in friction state that
+// differs a little from a tightening with sliding washers.
 func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 	force := func() (float64, error) {
 		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
@@ -162,6 +168,19 @@ func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 		if v, err = g.release(s, v); err != nil {
 			return 0, err
 		}
+		if round == 0 {
+			// The bolt is tight: from here on the washers follow their own
+			// law, and the next rounds correct the preload for it.
+			g.tighteningWashers(false)
+			if _, err := s.Equilibrium(); err != nil {
+				s.Revert()
+				return 0, fmt.Errorf("preload: the washers, let go after tightening: %w", err)
+			}
+			s.Commit()
+			if v, err = g.release(s, v); err != nil {
+				return 0, err
+			}
+		}
 		f, err := force()
 		if err != nil {
 			return 0, err
@@ -174,20 +193,14 @@ func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 			return 0, fmt.Errorf("preload: the bolt force did not settle at %.1f kN with the shell end free", target/1e3)
 		}
 	}
-	g.tighteningWashers(false)
-	if _, err := s.Equilibrium(); err != nil {
-		s.Revert()
-		return 0, fmt.Errorf("preload: the washers, let free after tightening: %w", err)
-	}
-	s.Commit()
 	return v, nil
 }
 
 // tighteningWashers glues the washers while on (see preload) and gives
 // them back their own law after.
 func (g *segment) tighteningWashers(on bool) {
-	g.head.Glue(on)
-	g.nut.Glue(on)
+	g.head.Glue(on, g.stickWashers)
+	g.nut.Glue(on, g.stickWashers)
 }
 
 // release moves the loaded edge, by secant steps from v, to the position
