@@ -105,10 +105,11 @@ func (p *Pair) Thaw(cur []Point) float64 {
 	return worst
 }
 
-// Correct checks every held point against its own law at cur: a point
-// whose forces differ from the law's by more than tol (N) is held at the
-// status its law gives there instead. It returns the largest difference
-// and how many points it changed. This is one step of an active-set
+// Correct checks every held point against its own law at cur. When the
+// forces of one differ from the law's by more than tol (N), every held
+// point whose law gives another status there is held at that status
+// instead. It returns the largest difference and how many points it
+// changed. This is one step of an active-set
 // iteration over the frozen points; when it changes none, the held state
 // satisfies every law to within tol and Thaw may release it.
 func (p *Pair) Correct(cur []Point, tol float64) (worst float64, changed int) {
@@ -116,6 +117,9 @@ func (p *Pair) Correct(cur []Point, tol float64) (worst float64, changed int) {
 		return 0, 0
 	}
 	held := p.held
+	var diff []int
+	var status []status
+	var signs []float64
 	for i, h := range held {
 		if h == unpaired {
 			continue
@@ -126,13 +130,23 @@ func (p *Pair) Correct(cur []Point, tol float64) (worst float64, changed int) {
 		p.held = held
 		d := (math.Abs(frozen.pN-free.pN) + math.Abs(frozen.tT-free.tT)) * p.points[i].area
 		worst = math.Max(worst, d)
-		if d > tol && free.status != unpaired && free.status != h {
-			held[i] = free.status
-			p.lastSign[i] = free.sign
-			changed++
+		if free.status != unpaired && free.status != h {
+			diff = append(diff, i)
+			status = append(status, free.status)
+			signs = append(signs, free.sign)
 		}
 	}
-	return worst, changed
+	if worst <= tol {
+		return worst, 0
+	}
+	// One active-set step over every held point whose law disagrees, not
+	// only the worst: a contact edge that moves along a lightly pressed
+	// face otherwise moves one point per step.
+	for k, i := range diff {
+		held[i] = status[k]
+		p.lastSign[i] = signs[k]
+	}
+	return worst, len(diff)
 }
 
 // Glue holds every paired point of the pair on the pressed branch of the

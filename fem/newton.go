@@ -473,11 +473,12 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		// Frozen points keep their branch, so the sliding couplings of the
 		// frozen sliding points stay valid: keep them, for quadratic steps.
 		s.coupled = it <= coupledIterations || s.anyFrozen
-		// A rise that comes with contact points changing status, in the
-		// first coupledIterations, is the active-set search at work (the
-		// step found a better set, its residual is that of the new set);
-		// cutting it back would only slow the search. Later, rises are cut
-		// back: by then a set that keeps changing is cycling.
+		// A moderate rise (less than double) that comes with contact points
+		// changing status, in the first coupledIterations, is the
+		// active-set search at work (the step found a better set, its
+		// residual is that of the new set); cutting it back would only slow
+		// the search. Larger rises, and later ones (by then a set that
+		// keeps changing is cycling), are cut back.
 		changes := 0
 		for _, p := range s.pairs {
 			changes += len(p.Changes())
@@ -487,9 +488,13 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		// anything); without contact it can be the right step of a large
 		// rotation.
 		overshoot := len(s.pairs) > 0 && nr > 10*prev
-		searching := changes > 0 && s.coupled
-		stuck := math.Abs(nr/prev-1) < 0.05 || overshoot || ((s.m.HasHistory() || !s.coupled) && nr > prev && !searching)
-		if stuck && step > 1.0/64 {
+		searching := changes > 0 && s.coupled && nr < 2*prev
+		rise := overshoot || ((s.m.HasHistory() || !s.coupled) && nr > prev && !searching)
+		// A step that leaves the residual where it was may have jumped to
+		// the mirror image of a two-state cycle: cut it twice at most,
+		// then take a fresh step; a rise is cut back further.
+		stall := math.Abs(nr/prev-1) < 0.05 && step > 1.0/4
+		if (rise && step > 1.0/64) || stall {
 			step /= 2
 			s.retreat(last, du, step)
 			continue
@@ -500,7 +505,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			s.thaw()
 			return it - 1, s.watch.failure(it-1, rel, "the residual does not fall below the tolerance")
 		}
-		if it >= freezeAfter && rel < freezeBelow && s.corrections <= maxThaws {
+		if it >= freezeAfter && rel < freezeBelow*s.watch.first && s.corrections <= maxThaws {
 			// Freezing suits a few points chattering at a kink; where many
 			// flip, the active set is still being found, and freezing it
 			// would only fix a wrong guess.
@@ -662,7 +667,7 @@ const (
 	// 570 kN preload.
 	freezeAfter     = 4
 	freezeBelow     = 1e-2
-	maxFreeze       = 12
+	maxFreeze       = 64
 	maxThaws        = 6
 	frozenTolerance = 10
 )
