@@ -1,9 +1,6 @@
 package contact
 
-import (
-	"fmt"
-	"math"
-)
+import "math"
 
 // Freezing the status of points that keep changing it.
 //
@@ -17,9 +14,10 @@ import (
 // Newton's method converges on it; afterwards Thaw measures how far each
 // frozen point's forces are from what its own law gives there, and the
 // solver accepts the state only when that is negligible. This is the
-// active-set stabilisation that Wriggers (Computational Contact Mechanics,
-// 2006, sect. 6.3, active set strategies) and Laursen (2002) describe for
-// oscillating contact constraints: fix the active set, solve, check the
+// active-set strategy for contact constraints (Wriggers, Computational
+// Contact Mechanics, 2006; Laursen, Computational Contact and Impact
+// Mechanics, 2002; as a semi-smooth Newton method: Hintermüller, Ito &
+// Kunisch, SIAM J. Optim. 13, 2003): fix the active set, solve, check the
 // inequalities, and correct.
 
 // heldStatus is the status point i is frozen at, or unpaired when free.
@@ -167,16 +165,4 @@ func (p *Pair) Glue(on, stick bool) {
 	default:
 		p.glued = pressed
 	}
-}
-
-// SetFriction changes the Coulomb coefficient from the next evaluation
-// on. Points that have been pressed without friction keep as anchors the
-// master points they were last committed at, so friction taken up again
-// starts from sticking with no elastic slip.
-func (p *Pair) SetFriction(mu float64) error {
-	if !(mu >= 0) || math.IsInf(mu, 0) {
-		return fmt.Errorf("contact: pair %q: friction coefficient %g: must be zero or positive", p.name, mu)
-	}
-	p.set.Friction = mu
-	return nil
 }

@@ -296,28 +296,6 @@ func (s *Solver) RestartRamp() {
 	s.before, s.lastStep, s.pendingStep = nil, 0, 0
 }
 
-// Prescribe holds dof d at its current value from now on: a support added
-// between stages, such as the loaded edge that the preload leaves free of
-// force and the tension stage then moves. The equations are numbered anew;
-// the state, the material history and the contact state carry over, and
-// the next ramp starts from the tangent's response again.
-func (s *Solver) Prescribe(d Dof) error {
-	if err := s.m.Fix(d, s.u[d]); err != nil {
-		return err
-	}
-	s.m.Number()
-	s.a = newAssembler(s.m)
-	s.groups = s.groups[:0]
-	for _, g := range s.a.eqIdx {
-		s.groups = append(s.groups, g)
-	}
-	s.seen = map[string]bool{}
-	s.RestartRamp()
-	s.couplings = s.couplings[:0]
-	s.forcesValid = false
-	return s.rebuild()
-}
-
 func eigenZZ(e float64) [4]float64 { return [4]float64{0, e, 0, 0} }
 
 // log hands a line to the --verbose log, if any.

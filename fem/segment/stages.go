@@ -86,6 +86,13 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		return nil, err
 	}
 	res.rows = append(res.rows, row)
+	if short, why := g.preloadFailed(row, res.preload); why != "" {
+		res.failure = errors.New("preload: " + short)
+		res.ending = "the preload stage did not reach a usable state"
+		res.diagnosis = why
+		res.timing = s.Timing
+		return res, nil
+	}
 	ld := g.spec.Load
 	peak := 0.0
 	res.ending = "maximum displacement reached"
@@ -344,4 +351,21 @@ func lastState(rows []figures.Row) string {
 		name = fmt.Sprintf("increment %d", last.Increment)
 	}
 	return fmt.Sprintf("%s (u = %.3g mm, Z = %.4g kN)", name, last.U, last.Z/1e3)
+}
+
+// preloadFailed says why a converged preload is no state to load (in
+// brief and in full), or "":
+// a bolt that ruptured while tightened, or a bolt that carries almost
+// nothing because its shortening did not close the gap between the faces.
+func (g *segment) preloadFailed(row figures.Row, pr fem.PreloadResult) (short, why string) {
+	if row.BoltDamage >= 1 {
+		return "the bolt ruptured while it was tightened", fmt.Sprintf("The bolt ruptured while it was tightened: the damage indicator reached D = %.2f in the %s at a bolt force of %.1f kN. What to try: a smaller preload (preload.nut_turn, preload.fraction or preload.force), or check the bolt's material curve.",
+			row.BoltDamage, row.BoltDamageWhere, pr.Force/1e3)
+	}
+	if pr.Force < 0.05*g.der.DesignPreload {
+		open := g.faceGap(0)
+		return "the bolt shortening did not close the gap between the faces", fmt.Sprintf("The preload could not close the gap: after tightening the bolt carries %.1f kN, less than 5 %% of F_p,C = %.1f kN, and the faces start %.3g mm apart at the bolt axis (contact.parallel_gap, contact.taper, contact.recess). What to try: a larger nut turn (it shortens the bolt by nut_turn/360 times the pitch), a preload by force, or a smaller gap.",
+			pr.Force/1e3, g.der.DesignPreload/1e3, open)
+	}
+	return "", ""
 }
