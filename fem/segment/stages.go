@@ -215,7 +215,9 @@ func (g *segment) tighteningWashers(on bool) {
 // (started from the tangent's response, halved where it fails) and at most
 // four times the one before, so a first secant estimate far off — the
 // joint stiffens or softens as the faces settle — is approached in steps
-// rather than in one jump.
+// rather than in one jump; once two positions with reactions of opposite
+// sign are known, the steps stay between them (regula falsi with the
+// Illinois weighting, so that one end cannot stay fixed for long).
 func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 	at := func(x float64) (float64, error) {
 		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: 1}, func(fem.Increment) (bool, error) { return false, nil })
@@ -230,15 +232,35 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 		return 0, err
 	}
 	scale := math.Max(math.Abs(g.der.PreloadForce), g.der.DesignPreload)
-	step := -1e-3
-	v1 := v + step
-	for it := 0; it < 40; it++ {
+	type end struct{ v, z float64 }
+	var lo, hi *end // reaction below and above zero
+	note := func(v, z float64) {
+		switch {
+		case z < 0 && (lo == nil || v != lo.v):
+			if lo != nil && hi != nil && lo.z < 0 && hi.z > 0 {
+				hi.z /= 2 // Illinois: the other end stayed
+			}
+			lo = &end{v, z}
+		case z > 0 && (hi == nil || v != hi.v):
+			if lo != nil && hi != nil {
+				lo.z /= 2
+			}
+			hi = &end{v, z}
+		}
+	}
+	note(v, z0)
+	v1 := v - 1e-3
+	for it := 0; it < 60; it++ {
 		if math.Abs(z0) <= 1e-7*scale {
 			return v, nil
 		}
 		z1, err := at(v1)
 		if err != nil {
 			return 0, err
+		}
+		note(v1, z1)
+		if math.Abs(z1) <= 1e-7*scale {
+			return v1, nil
 		}
 		if z1 == z0 {
 			return 0, fmt.Errorf("preload: the loaded edge does not respond")
@@ -247,9 +269,15 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 		if limit := 4 * math.Abs(v1-v); math.Abs(next-v1) > limit {
 			next = v1 + math.Copysign(limit, next-v1)
 		}
+		if lo != nil && hi != nil {
+			a, b := math.Min(lo.v, hi.v), math.Max(lo.v, hi.v)
+			if !(next > a && next < b) {
+				next = lo.v - lo.z*(hi.v-lo.v)/(hi.z-lo.z)
+			}
+		}
 		v, v1, z0 = v1, next, z1
 	}
-	return 0, fmt.Errorf("preload: the shell end did not come free of force")
+	return 0, &fem.NotConvergedError{Iterations: 60, Reason: "the shell end did not come free of force in 60 secant steps"}
 }
 
 // preloadEstimate is a first estimate of the slice strain that gives the
