@@ -393,68 +393,6 @@ func (p *Pair) coverBareNodes(index map[int]int) {
 	}
 }
 
-// chainOrder lists the segments so that they follow each other along the
-// surface where they connect end to end: each chain starts at a segment
-// whose first node ends no other segment. Segments that do not chain keep
-// their given order.
-func chainOrder(segs [][]int) []int {
-	next := map[int]int{} // first node → segment
-	ends := map[int]bool{}
-	for s, seg := range segs {
-		if _, dup := next[seg[0]]; !dup {
-			next[seg[0]] = s
-		}
-		ends[seg[1]] = true
-	}
-	done := make([]bool, len(segs))
-	order := make([]int, 0, len(segs))
-	follow := func(s int) {
-		for !done[s] {
-			done[s] = true
-			order = append(order, s)
-			n, ok := next[segs[s][1]]
-			if !ok {
-				return
-			}
-			s = n
-		}
-	}
-	for s, seg := range segs {
-		if !done[s] && !ends[seg[0]] {
-			follow(s)
-		}
-	}
-	for s := range segs {
-		if !done[s] {
-			follow(s)
-		}
-	}
-	return order
-}
-
-// neighbours lists, per segment, the other segments that share an end
-// node with it, in ascending order.
-func neighbours(segs [][]int) [][]int {
-	byNode := map[int][]int{}
-	for s, seg := range segs {
-		for _, n := range seg[:2] {
-			byNode[n] = append(byNode[n], s)
-		}
-	}
-	out := make([][]int, len(segs))
-	for s, seg := range segs {
-		for _, n := range seg[:2] {
-			for _, o := range byNode[n] {
-				if o != s && !slices.Contains(out[s], o) {
-					out[s] = append(out[s], o)
-				}
-			}
-		}
-		slices.Sort(out[s])
-	}
-	return out
-}
-
 // collectNodes lists every node of the pair for the input checks.
 func (p *Pair) collectNodes() {
 	seen := make([]bool, p.maxNode+1)

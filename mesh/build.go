@@ -1,5 +1,9 @@
 package mesh
 
+// This file is longer than most: the block mesher (vertices, curved
+// sides, divisions with grading, node merging along shared sides, sets)
+// is one algorithm whose steps share the block tables.
+
 import (
 	"errors"
 	"fmt"

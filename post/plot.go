@@ -1,5 +1,9 @@
 package post
 
+// This file is longer than most: one plot builder (axes, ticks, legend,
+// curves, markers) shared by the SVG and PNG writers, kept together so
+// that both show the same picture.
+
 import (
 	"bytes"
 	"errors"

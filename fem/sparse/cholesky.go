@@ -1,5 +1,8 @@
 package sparse
 
+// This file is longer than most: the supernodal factorization and its
+// triangular solves work on one storage layout and are kept beside it.
+
 import (
 	"errors"
 	"fmt"

@@ -1,5 +1,9 @@
 package sparse
 
+// This file is longer than most: the nested-dissection ordering
+// (coarsening, separator search, refinement, recursion) is one algorithm
+// whose steps share the graph structures.
+
 import (
 	"math/rand/v2"
 	"runtime"

@@ -1,5 +1,9 @@
 package sparse
 
+// This file is longer than most: the symbolic analysis (elimination tree,
+// postorder, column counts, supernodes and their row structure) is one
+// pipeline whose steps share their arrays; split, it would read worse.
+
 import (
 	"errors"
 	"fmt"
