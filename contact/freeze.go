@@ -82,22 +82,14 @@ func (p *Pair) Freeze(minFlips int) int {
 // which a held point's contact forces differ at cur from those of its own
 // law: |Δp_N| + |Δt_T| times the point's area. Zero when none was held.
 func (p *Pair) Thaw(cur []Point) float64 {
-	if p.held == nil || p.checkCurrent(cur) != nil {
-		p.held = nil
-		return 0
-	}
 	worst := 0.0
-	held := p.held
-	for i, h := range held {
-		if h == unpaired {
-			continue
+	if p.held != nil && p.checkCurrent(cur) == nil {
+		for i, h := range p.held {
+			if h != unpaired {
+				d, _ := p.offLaw(i, cur)
+				worst = math.Max(worst, d)
+			}
 		}
-		frozen := p.evalPoint(i, cur, &p.working[i])
-		p.held = nil
-		free := p.evalPoint(i, cur, &p.working[i])
-		p.held = held
-		d := (math.Abs(frozen.pN-free.pN) + math.Abs(frozen.tT-free.tT)) * p.points[i].area
-		worst = math.Max(worst, d)
 	}
 	p.held = nil
 	return worst
@@ -107,31 +99,23 @@ func (p *Pair) Thaw(cur []Point) float64 {
 // forces of one differ from the law's by more than tol (N), every held
 // point whose law gives another status there is held at that status
 // instead. It returns the largest difference and how many points it
-// changed. This is one step of an active-set
-// iteration over the frozen points; when it changes none, the held state
-// satisfies every law to within tol and Thaw may release it.
+// changed. This is one step of an active-set iteration over the frozen
+// points; when it changes none, the held state satisfies every law to
+// within tol and Thaw may release it.
 func (p *Pair) Correct(cur []Point, tol float64) (worst float64, changed int) {
 	if p.held == nil || p.checkCurrent(cur) != nil {
 		return 0, 0
 	}
-	held := p.held
-	var diff []int
-	var status []status
-	var signs []float64
-	for i, h := range held {
+	var disagree []pointEval
+	var at []int
+	for i, h := range p.held {
 		if h == unpaired {
 			continue
 		}
-		frozen := p.evalPoint(i, cur, &p.working[i])
-		p.held = nil
-		free := p.evalPoint(i, cur, &p.working[i])
-		p.held = held
-		d := (math.Abs(frozen.pN-free.pN) + math.Abs(frozen.tT-free.tT)) * p.points[i].area
+		d, free := p.offLaw(i, cur)
 		worst = math.Max(worst, d)
 		if free.status != unpaired && free.status != h {
-			diff = append(diff, i)
-			status = append(status, free.status)
-			signs = append(signs, free.sign)
+			disagree, at = append(disagree, free), append(at, i)
 		}
 	}
 	if worst <= tol {
@@ -140,11 +124,21 @@ func (p *Pair) Correct(cur []Point, tol float64) (worst float64, changed int) {
 	// One active-set step over every held point whose law disagrees, not
 	// only the worst: a contact edge that moves along a lightly pressed
 	// face otherwise moves one point per step.
-	for k, i := range diff {
-		held[i] = status[k]
-		p.lastSign[i] = signs[k]
+	for k, i := range at {
+		p.held[i], p.lastSign[i] = disagree[k].status, disagree[k].sign
 	}
-	return worst, len(diff)
+	return worst, len(at)
+}
+
+// offLaw evaluates held point i at cur as held and by its own law, and
+// returns the force by which the two differ (N) and the law's answer.
+func (p *Pair) offLaw(i int, cur []Point) (float64, pointEval) {
+	held := p.held
+	frozen := p.evalPoint(i, cur, &p.working[i])
+	p.held = nil
+	free := p.evalPoint(i, cur, &p.working[i])
+	p.held = held
+	return (math.Abs(frozen.pN-free.pN) + math.Abs(frozen.tT-free.tT)) * p.points[i].area, free
 }
 
 // Glue holds every paired point of the pair on the pressed branch of the
