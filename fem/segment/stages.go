@@ -216,8 +216,8 @@ func (g *segment) tighteningWashers(on bool) {
 // four times the one before, so a first secant estimate far off — the
 // joint stiffens or softens as the faces settle — is approached in steps
 // rather than in one jump; once two positions with reactions of opposite
-// sign are known, the steps stay between them (regula falsi with the
-// Illinois weighting, so that one end cannot stay fixed for long).
+// sign are known, a secant step that leaves them is replaced by their
+// midpoint (the safeguard of Dekker's method).
 func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 	at := func(x float64) (float64, error) {
 		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: 1}, func(fem.Increment) (bool, error) { return false, nil })
@@ -233,18 +233,11 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 	}
 	scale := math.Max(math.Abs(g.der.PreloadForce), g.der.DesignPreload)
 	type end struct{ v, z float64 }
-	var lo, hi *end // reaction below and above zero
+	var lo, hi *end // the last positions with a reaction below and above zero
 	note := func(v, z float64) {
-		switch {
-		case z < 0 && (lo == nil || v != lo.v):
-			if lo != nil && hi != nil && lo.z < 0 && hi.z > 0 {
-				hi.z /= 2 // Illinois: the other end stayed
-			}
+		if z < 0 {
 			lo = &end{v, z}
-		case z > 0 && (hi == nil || v != hi.v):
-			if lo != nil && hi != nil {
-				lo.z /= 2
-			}
+		} else if z > 0 {
 			hi = &end{v, z}
 		}
 	}
@@ -272,8 +265,13 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 		if lo != nil && hi != nil {
 			a, b := math.Min(lo.v, hi.v), math.Max(lo.v, hi.v)
 			if !(next > a && next < b) {
-				next = lo.v - lo.z*(hi.v-lo.v)/(hi.z-lo.z)
+				next = (a + b) / 2
 			}
+		}
+		if math.Abs(next-v1) <= 1e-9 {
+			// The position is found to a nanometre: what force is left is
+			// the stiffness of a very stiff joint times the rounding.
+			return v1, nil
 		}
 		v, v1, z0 = v1, next, z1
 	}
