@@ -56,15 +56,28 @@ var robustFamily = []robustCase{
 }
 
 func runRobust(t testing.TB, c robustCase) *Result {
+	r, _ := runRobustLogged(t, c)
+	return r
+}
+
+// runRobustLogged runs a file of the family and counts the step halvings
+// in the solver's log (preload, release and tension stage together).
+func runRobustLogged(t testing.TB, c robustCase) (*Result, int) {
 	spec, err := modelfile.Load(filepath.Join("..", "..", "testdata", "robust", c.file+".toml"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err := Run(context.Background(), spec, Options{})
+	halvings := 0
+	log := func(line string) {
+		if strings.Contains(line, "step halved") {
+			halvings++
+		}
+	}
+	r, err := Run(context.Background(), spec, Options{Log: log})
 	if err != nil {
 		t.Fatalf("%s: %v", c.file, err)
 	}
-	return r
+	return r, halvings
 }
 
 // checkRobust checks a run of the family against what the table says of
@@ -116,13 +129,14 @@ func TestRobustnessFamily(t *testing.T) {
 // BenchmarkRobustness runs the whole family, one sub-benchmark per file,
 // and reports the increments, the Newton iterations (all, and per
 // converged increment of the tension stage: median and largest) and the
-// step halvings.
+// step halvings of all stages.
 func BenchmarkRobustness(b *testing.B) {
 	for _, c := range robustFamily {
 		b.Run(c.file, func(b *testing.B) {
 			var r *Result
+			halvings := 0
 			for i := 0; i < b.N; i++ {
-				r = runRobust(b, c)
+				r, halvings = runRobustLogged(b, c)
 			}
 			checkRobust(b, c, r)
 			var its []float64
@@ -133,6 +147,7 @@ func BenchmarkRobustness(b *testing.B) {
 			b.ReportMetric(float64(r.Timing.Iterations), "newton")
 			b.ReportMetric(median(its), "median-its/inc")
 			b.ReportMetric(maxOf(its), "max-its/inc")
+			b.ReportMetric(float64(halvings), "halvings")
 		})
 	}
 }
