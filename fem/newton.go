@@ -428,7 +428,8 @@ const (
 	// tangent before the sliding couplings are dropped.
 	coupledIterations = 8
 	// freezeAfter: the Newton iteration of a solve from which points that
-	// have changed status twice are frozen; maxThaws: how often frozen
+	// have changed status twice are frozen, once the residual is below
+	// freezeBelow times the solve's first; maxThaws: how often frozen
 	// points may be released for violating their law before freezing
 	// stops; frozenTolerance: the force by which a frozen point may be off
 	// its law, in units of the residual's tolerance (Tolerance·reference

@@ -219,7 +219,15 @@ func (g *segment) tighteningWashers(on bool) {
 // sign are known, a secant step that leaves them is replaced by their
 // midpoint (the safeguard of Dekker's method).
 func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
+	last := 0.0 // the edge position of the step before
 	at := func(x float64) (float64, error) {
+		// A secant step that turns back starts from the tangent's
+		// response: extrapolating the step before would push the wrong way.
+		from := s.Model().Value(g.edge.Axial)
+		if (x-from)*(from-last) < 0 {
+			s.RestartRamp()
+		}
+		last = from
 		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: 1}, func(fem.Increment) (bool, error) { return false, nil })
 		if err != nil {
 			return 0, err
