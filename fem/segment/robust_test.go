@@ -36,7 +36,7 @@ var robustFamily = []robustCase{
 	{"r09_taper+05_plastic", false, true},
 	{"r10_taper-05_plastic", false, true},
 	{"r11_taper+03_elastic_ld", false, true},
-	{"r12_taper-02_plastic_ld_fixed", false, false},
+	{"r12_taper-02_plastic_ld_fixed", false, true},
 	{"r13_gap05_plastic", false, true},
 	{"r14_gap02_elastic_strain", true, true},
 	{"r15_slender_flat_plastic", true, false},
