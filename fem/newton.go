@@ -31,6 +31,8 @@ type ContactPair interface {
 	Freeze(minFlips int) int
 	Thaw(cur []contact.Point) float64
 	Correct(cur []contact.Point, tol float64) (worst float64, changed int)
+	// MaxPenetration is the largest penetration at cur, mm.
+	MaxPenetration(cur []contact.Point) float64
 }
 
 // NewtonOptions tune the equilibrium iterations.

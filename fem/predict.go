@@ -17,6 +17,7 @@ func (s *Solver) predict(step float64) error {
 	if s.lastStep <= 0 || s.before == nil {
 		return s.tangentPredict()
 	}
+	was := s.penetration()
 	r := step / s.lastStep
 	for d, q := range s.m.eq {
 		if q >= 0 {
@@ -25,7 +26,31 @@ func (s *Solver) predict(step float64) error {
 	}
 	s.m.expand(s.u)
 	s.forcesValid = false
+	if s.penetration() > was+predictorPenetration {
+		// The extrapolation runs into a contact that the last increment
+		// did not have (a free edge touching down as the flange pries);
+		// the forces of that penetration would throw the first Newton
+		// steps far off. Start from the tangent's response instead.
+		copy(s.u, s.done)
+		s.forcesValid = false
+		return s.tangentPredict()
+	}
 	return nil
+}
+
+// predictorPenetration is the new penetration (mm) an extrapolated
+// start may make before the increment starts from the tangent's response
+// instead: ten times the contact pairs' usual tolerance.
+const predictorPenetration = 0.01
+
+// penetration is the largest penetration of any contact pair at u.
+func (s *Solver) penetration() float64 {
+	s.updateCurrent()
+	worst := 0.0
+	for _, p := range s.pairs {
+		worst = max(worst, p.MaxPenetration(s.cur))
+	}
+	return worst
 }
 
 // tangentPredict moves the free dofs by the tangent's response to the
