@@ -61,7 +61,7 @@ func (s *Solver) settled(tol float64) bool {
 		return true
 	}
 	s.corrections++
-	if s.corrections > maxThaws {
+	if s.corrections > s.maxCorrections() {
 		s.thaw()
 		s.anyFrozen = false
 		s.log(fmt.Sprintf("  frozen contact points off their law by up to %.3g N: all released", worst))

@@ -118,7 +118,11 @@ type Solver struct {
 	// points in the current equilibrium solve.
 	corrections int
 	anyFrozen   bool
-	watch       watch
+	// patient: the solves of a preload stage, where a contact edge may
+	// have to creep far along a lightly pressed face, get more iterations
+	// and corrections (see patience).
+	patient bool
+	watch   watch
 }
 
 // coupling is a dense unsymmetric block over equations (−1: none).
@@ -314,7 +318,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			s.thaw()
 			return it - 1, s.watch.failure(it-1, rel, "the residual does not fall below the tolerance")
 		}
-		if it >= freezeAfter && rel < freezeBelow*s.watch.first && s.corrections <= maxThaws {
+		if it >= freezeAfter && rel < freezeBelow*s.watch.first && s.corrections <= s.maxCorrections() {
 			// Freezing suits a few points chattering at a kink; where many
 			// flip, the active set is still being found, and freezing it
 			// would only fix a wrong guess.
@@ -437,11 +441,14 @@ const (
 	// its law, in units of the residual's tolerance (Tolerance·reference
 	// force): ten times what equilibrium is checked to, some 0.6 N on a
 	// 570 kN preload.
-	freezeAfter     = 4
-	freezeBelow     = 1e-2
-	maxFreeze       = 64
-	maxThaws        = 6
-	frozenTolerance = 10
+	freezeAfter = 4
+	freezeBelow = 1e-2
+	maxFreeze   = 64
+	maxThaws    = 6
+	// patientIterations, patientCorrections: the limits under patience.
+	patientIterations  = 60
+	patientCorrections = 20
+	frozenTolerance    = 10
 )
 
 // Commit accepts the current state as converged.
@@ -481,4 +488,24 @@ func (s *Solver) unstable(err error) error {
 		}
 	}
 	return &NotConvergedError{Iterations: s.Timing.Iterations, Residual: s.lastRes, Reason: "the tangent is not positive definite: " + err.Error()}
+}
+
+// patience lets the solves until the returned function is called take
+// patientIterations Newton iterations and patientCorrections corrections
+// of frozen contact points: the preload of a slender flange starts from
+// faces that touch everywhere without pressure, and the contact edge on
+// the shell side creeps along them a few points per correction.
+func (s *Solver) patience() (restore func()) {
+	was, wasIts := s.patient, s.opt.MaxIterations
+	s.patient = true
+	s.opt.MaxIterations = max(wasIts, patientIterations)
+	return func() { s.patient, s.opt.MaxIterations = was, wasIts }
+}
+
+// maxCorrections is how many corrections of frozen points a solve may make.
+func (s *Solver) maxCorrections() int {
+	if s.patient {
+		return patientCorrections
+	}
+	return maxThaws
 }

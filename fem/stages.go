@@ -228,6 +228,7 @@ type eigenPath struct {
 // step that does not converge (at most maxCuts times in a row).
 func (p *eigenPath) moveTo(e float64) error {
 	s := p.s
+	defer s.patience()()
 	cuts := 0
 	for math.Abs(e-p.res.Eigenstrain) > 1e-15 {
 		at := p.res.Eigenstrain
