@@ -128,7 +128,8 @@ func TestRobustnessFamily(t *testing.T) {
 // BenchmarkRobustness runs the whole family, one sub-benchmark per file,
 // and reports the increments, the Newton iterations (all, and per
 // converged increment of the tension stage: median and largest) and the
-// step halvings of all stages.
+// step halvings of all stages, and the most halvings one increment of the
+// tension stage needed.
 func BenchmarkRobustness(b *testing.B) {
 	for _, c := range robustFamily {
 		b.Run(c.file, func(b *testing.B) {
@@ -139,14 +140,17 @@ func BenchmarkRobustness(b *testing.B) {
 			}
 			checkRobust(b, c, r)
 			var its []float64
+			cuts := 0
 			for _, row := range r.History[min(1, len(r.History)):] {
 				its = append(its, float64(row.Iterations))
+				cuts = max(cuts, row.Cuts)
 			}
 			b.ReportMetric(float64(len(its)), "increments")
 			b.ReportMetric(float64(r.Timing.Iterations), "newton")
 			b.ReportMetric(median(its), "median-its/inc")
 			b.ReportMetric(maxOf(its), "max-its/inc")
 			b.ReportMetric(float64(halvings), "halvings")
+			b.ReportMetric(float64(cuts), "max-cuts/inc")
 		})
 	}
 }

@@ -101,6 +101,7 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		if err != nil {
 			return true, err
 		}
+		row.Cuts = inc.Cuts
 		keep := opt.keep == nil || opt.keep(inc.Index) || inc.Fraction >= 1
 		if err := g.observe(s, res, fmt.Sprintf("increment %d", inc.Index), &row, keep); err != nil {
 			return true, err

@@ -17,6 +17,9 @@ type Row struct {
 	Penetration     float64   // largest penetration of any pair, mm
 	ZFixed          float64   // z reaction at the fixed shell end, N (equilibrium check)
 	Iterations      int
+	// Cuts is how often the increment's step was halved before it converged
+	// (not written to history.csv).
+	Cuts int
 	// Yielding (zero with elastic laws): largest equivalent plastic
 	// strain and damage indicator anywhere, per failure site (the names
 	// of Sites; a hinge site only where a cut has yielded through its
