@@ -1,8 +1,9 @@
 package contact
 
 // Change is a Gauss point whose contact status changed between the last
-// two evaluations (a sliding point whose slip turned round counts): the trace of a Newton iteration that has not settled
-// which points touch or slide.
+// two evaluations (a sliding point whose slip turned round counts): the
+// trace of a Newton iteration that has not settled which points touch or
+// slide.
 type Change struct {
 	X, Z     float64 // reference position of the point, mm
 	From, To string  // status words: "unpaired", "open", "pressed", "sticking", "sliding"

@@ -5,11 +5,12 @@ package fem
 
 import (
 	"errors"
-	"flangeseg/contact"
 	"fmt"
 	"math"
 	"slices"
 	"strings"
+
+	"flangeseg/contact"
 )
 
 // NotConvergedError reports an equilibrium solve that failed; the solver
@@ -83,18 +84,13 @@ func (s *Solver) thaw() float64 {
 	return v
 }
 
-// iterationNote describes where the residual r is largest and which
-// contact points changed status, for the --verbose log.
-func (s *Solver) iterationNote(r []float64) string {
-	worst, at := 0.0, -1
-	for d, q := range s.m.eq {
-		if q >= 0 && math.Abs(r[q]) > worst {
-			worst, at = math.Abs(r[q]), d
-		}
-	}
+// iterationNote describes where the residual of the iteration just
+// recorded is largest and which contact points changed status, for the
+// --verbose log.
+func (s *Solver) iterationNote() string {
 	var b strings.Builder
-	if at >= 0 {
-		fmt.Fprintf(&b, "  largest %.3g N at %s", worst, s.m.DescribeDof(Dof(at)))
+	if w := &s.watch; w.at >= 0 {
+		fmt.Fprintf(&b, "  largest %.3g N at %s", w.largest, s.m.DescribeDof(Dof(w.at)))
 	}
 	for _, p := range s.pairs {
 		ch := p.Changes()
@@ -116,8 +112,8 @@ func (s *Solver) iterationNote(r []float64) string {
 // watch keeps what a diagnosis of a failed solve needs.
 type watch struct {
 	first, best float64
-	largest     float64
-	where       string
+	largest     float64 // the largest out-of-balance force of the last iteration, N
+	at          int     // its dof (−1: none); named only when a solve fails
 	cycling     map[string]*Cycling
 	seen        map[string]map[[2]float64]bool
 	statuses    map[string]map[string]bool
@@ -130,15 +126,11 @@ func (w *watch) record(s *Solver, it int, rel float64, r []float64) {
 		w.first, w.best = rel, rel
 	}
 	w.best = math.Min(w.best, rel)
-	w.largest, w.where = 0, ""
-	at := -1
+	w.largest, w.at = 0, -1
 	for d, q := range s.m.eq {
 		if q >= 0 && math.Abs(r[q]) > w.largest {
-			w.largest, at = math.Abs(r[q]), d
+			w.largest, w.at = math.Abs(r[q]), d
 		}
-	}
-	if at >= 0 {
-		w.where = s.m.describePlace(Dof(at))
 	}
 	if it <= s.opt.MaxIterations/2 {
 		return
@@ -169,9 +161,12 @@ func (w *watch) addChange(pair string, c contact.Change) {
 	w.statuses[pair][c.From], w.statuses[pair][c.To] = true, true
 }
 
-// failure builds the error of a failed solve.
-func (w *watch) failure(its int, rel float64, reason string) *NotConvergedError {
-	e := &NotConvergedError{Iterations: its, Residual: rel, Reason: reason, First: w.first, Best: w.best, Largest: w.largest, Where: w.where}
+// failure builds the error of a failed solve of model m.
+func (w *watch) failure(m *Model, its int, rel float64, reason string) *NotConvergedError {
+	e := &NotConvergedError{Iterations: its, Residual: rel, Reason: reason, First: w.first, Best: w.best, Largest: w.largest}
+	if w.at >= 0 {
+		e.Where = m.describePlace(Dof(w.at))
+	}
 	for _, name := range w.order {
 		cy := *w.cycling[name]
 		var st []string

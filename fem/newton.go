@@ -247,7 +247,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		p.ResetFlips()
 	}
 	s.corrections, s.anyFrozen = 0, false
-	s.watch = watch{}
+	s.watch = watch{at: -1}
 	for it := 1; ; it++ {
 		if err := s.ensurePattern(); err != nil {
 			s.thaw()
@@ -272,7 +272,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		s.Timing.Iterations++
 		s.watch.record(s, it, rel, r)
 		if s.opt.Log != nil {
-			s.opt.Log(fmt.Sprintf("  iteration %2d  relative residual %.3e%s", it, rel, s.iterationNote(r)))
+			s.opt.Log(fmt.Sprintf("  iteration %2d  relative residual %.3e%s", it, rel, s.iterationNote()))
 		}
 		if rel <= s.opt.Tolerance {
 			if s.settled(frozenTolerance * s.opt.Tolerance * ref) {
@@ -316,7 +316,7 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		copy(last, s.u)
 		if math.IsNaN(rel) || it > s.opt.MaxIterations {
 			s.thaw()
-			return it - 1, s.watch.failure(it-1, rel, "the residual does not fall below the tolerance")
+			return it - 1, s.watch.failure(s.m, it-1, rel, "the residual does not fall below the tolerance")
 		}
 		if it >= freezeAfter && rel < freezeBelow*s.watch.first && s.corrections <= s.maxCorrections() {
 			// Freezing suits a few points chattering at a kink; where many

@@ -86,14 +86,6 @@ type PreloadResult struct {
 	Eigenstrain float64 // zz strain locked into the slice
 	Force       float64 // bolt force reached, N
 	Iterations  int     // equilibrium solves used
-	Steps       []PreloadStep
-}
-
-// PreloadStep is one converged state of the preload stage.
-type PreloadStep struct {
-	Eigenstrain float64 // zz strain of the slice
-	Force       float64 // bolt force, N
-	Iterations  int     // Newton iterations of the solve
 }
 
 // PreloadOptions tune the preload stage.
@@ -242,7 +234,7 @@ func (p *eigenPath) moveTo(e float64) error {
 		p.predict(d)
 		p.res.Iterations++
 		s.log(fmt.Sprintf("preload: slice strain %.6g", at+d))
-		its, err := s.Equilibrium()
+		_, err := s.Equilibrium()
 		if err != nil {
 			s.Revert()
 			if err2 := s.m.SetEigenstrain(p.region, eigenZZ(at)); err2 != nil {
@@ -267,7 +259,6 @@ func (p *eigenPath) moveTo(e float64) error {
 				return err
 			}
 		}
-		p.res.Steps = append(p.res.Steps, PreloadStep{Eigenstrain: p.res.Eigenstrain, Force: p.res.Force, Iterations: its})
 		cuts = max(cuts-1, 0)
 	}
 	return nil

@@ -167,7 +167,6 @@ func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 		} else {
 			pr, err = s.Shorten("bolt_preload", g.der.PreloadShortening, g.slice, 4, force)
 		}
-		pr.Steps = append(res.preload.Steps, pr.Steps...)
 		pr.Iterations += res.preload.Iterations
 		res.preload = pr
 		if err != nil {
