@@ -123,6 +123,9 @@ type Solver struct {
 	// and corrections (see patience).
 	patient bool
 	watch   watch
+	// budget: the Newton iterations the equilibrium solve under way may
+	// take in all (RampOptions.Budget), 0 for none.
+	budget int
 }
 
 // coupling is a dense unsymmetric block over equations (−1: none).
@@ -195,7 +198,13 @@ func (s *Solver) Equilibrium() (int, error) {
 	}
 	total := 0
 	for aug := 0; ; aug++ {
-		n, err := s.newton(fext)
+		limit := s.opt.MaxIterations
+		if s.budget > 0 {
+			// A multiplier update after a converged round moves the state
+			// little; it gets a few iterations whatever is left.
+			limit = min(limit, max(s.budget-total, min(augmentFloor, s.budget)))
+		}
+		n, err := s.newton(fext, limit)
 		total += n
 		if err != nil {
 			return total, err
@@ -216,7 +225,7 @@ func (s *Solver) Equilibrium() (int, error) {
 	}
 }
 
-func (s *Solver) newton(fext []float64) (int, error) {
+func (s *Solver) newton(fext []float64, limit int) (int, error) {
 	du := make([]float64, s.m.nEq)
 	// Contact makes the residual piecewise smooth: a point on the edge of
 	// the contact zone or on the stick–slip boundary changes status with
@@ -283,6 +292,16 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			prev, step = math.Inf(1), 1
 			continue
 		}
+		// Checked before the line search, so that the steps it cuts back
+		// count against the limit too.
+		if math.IsNaN(rel) || it > limit {
+			s.thaw()
+			reason := "the residual does not fall below the tolerance"
+			if limit < s.opt.MaxIterations {
+				reason += fmt.Sprintf(" within the increment's budget of %d iterations (multiplier updates included)", s.budget)
+			}
+			return it - 1, s.watch.failure(s.m, it-1, rel, reason)
+		}
 		// Frozen points keep their branch, so the sliding couplings of the
 		// frozen sliding points stay valid: keep them, for quadratic steps.
 		s.coupled = it <= coupledIterations || s.anyFrozen
@@ -314,10 +333,6 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		}
 		prev, step = nr, 1
 		copy(last, s.u)
-		if math.IsNaN(rel) || it > s.opt.MaxIterations {
-			s.thaw()
-			return it - 1, s.watch.failure(s.m, it-1, rel, "the residual does not fall below the tolerance")
-		}
 		if it >= freezeAfter && rel < freezeBelow*s.watch.first && s.corrections <= s.maxCorrections() {
 			// Freezing suits a few points chattering at a kink; where many
 			// flip, the active set is still being found, and freezing it
@@ -449,6 +464,9 @@ const (
 	patientIterations  = 60
 	patientCorrections = 20
 	frozenTolerance    = 10
+	// augmentFloor: the Newton iterations a multiplier update may take
+	// even where an increment's budget (RampOptions.Budget) is spent.
+	augmentFloor = 3
 )
 
 // Commit accepts the current state as converged.

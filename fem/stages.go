@@ -18,6 +18,15 @@ type Increment struct {
 type RampOptions struct {
 	Increments int // equal steps to the target (≥ 1)
 	MaxCuts    int // halvings of a failing step before giving up (default 6)
+	// Budget is the Newton iterations an increment may take, multiplier
+	// updates included, before its step is halved, while it has been
+	// halved fewer than BudgetCuts times (0: no budget; the solver's
+	// MaxIterations per update). A contact solve that has not converged
+	// in some fifteen iterations is as a rule cycling between contact
+	// states, and half the step costs less than the cycling; an increment
+	// that two halvings did not help gets the solver's full iterations
+	// before it is halved again, so the budget never ends a run.
+	Budget, BudgetCuts int
 }
 
 // Ramp moves the prescribed dof d from its current value to target in
@@ -47,7 +56,12 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 			return err
 		}
 		s.log(fmt.Sprintf("increment %d: %.6g → %.6g", count+1, start+at*span, start+next*span))
+		s.budget = 0
+		if cuts < opt.BudgetCuts {
+			s.budget = opt.Budget
+		}
 		its, err := s.Equilibrium()
+		s.budget = 0
 		if err != nil {
 			s.log(fmt.Sprintf("  not converged (%v); step halved", err))
 			s.Revert()

@@ -96,7 +96,7 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 	ld := g.spec.Load
 	peak := 0.0
 	res.ending = "maximum displacement reached"
-	err = s.Ramp(g.edge.Axial, v0+ld.MaxDisplacement, fem.RampOptions{Increments: ld.Increments}, func(inc fem.Increment) (bool, error) {
+	err = s.Ramp(g.edge.Axial, v0+ld.MaxDisplacement, fem.RampOptions{Increments: ld.Increments, Budget: incrementBudget, BudgetCuts: budgetCuts}, func(inc fem.Increment) (bool, error) {
 		row, err := g.record(s, inc.Index, "tension", v0, inc.Iterations)
 		if err != nil {
 			return true, err
@@ -136,6 +136,18 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 	}
 	return res, nil
 }
+
+// The tension stage's increments have incrementBudget Newton iterations
+// (fem.RampOptions.Budget) while halved fewer than budgetCuts times. Over
+// the robustness family (testdata/robust), the solves that took longer
+// were cycling between contact states — whole washers between sticking
+// and sliding, the face slipping and sticking as the flange begins to
+// turn — until the frozen-point corrections caught them, and a half step
+// needed fewer iterations than the rest of the cycling.
+const (
+	incrementBudget = 15
+	budgetCuts      = 2
+)
 
 // preload brings the bolt to its target with the loaded edge free of
 // force: the slice is shortened in load steps (fem.Preload) with the edge
