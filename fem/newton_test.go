@@ -169,3 +169,69 @@ func TestRampFirstIncrementPredicted(t *testing.T) {
 		t.Fatal(err)
 	}
 }
+
+// TestRampBudget: an increment that needs more Newton iterations than its
+// budget is halved rather than iterated on; once halved BudgetCuts times
+// it gets the solver's full limit, so the ramp still reaches its end. A
+// Hencky bar stretched by half its length in one step needs more than two
+// iterations, and elasticity makes the end force independent of the path.
+func TestRampBudget(t *testing.T) {
+	run := func(opt RampOptions) (float64, []Increment) {
+		msh, err := mesh.Rect(0, 0, 10, 20, 2, 3, mesh.Region{Name: "bar", Thickness: 2, Material: "steel"}, mesh.Quad8)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, err := NewModel(msh, map[string]material.Law{"steel": material.Elastic{E: 1000, Nu: 0.3}},
+			Options{Condition: material.PlaneStress, Kinematics: FiniteStrain{}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := m.FixSet("bottom", Z, 0); err != nil {
+			t.Fatal(err)
+		}
+		if err := m.FixSet("left", X, 0); err != nil {
+			t.Fatal(err)
+		}
+		edge, err := m.AddRigidEdge("top", mesh.Point{X: 0, Z: 20}, RigidEdgeOptions{FixRotation: true, LateralFree: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := m.Fix(edge.Axial, 0); err != nil {
+			t.Fatal(err)
+		}
+		s, err := NewSolver(m, nil, NewtonOptions{Tolerance: 1e-11})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var incs []Increment
+		err = s.Ramp(edge.Axial, 10, opt, func(inc Increment) (bool, error) {
+			incs = append(incs, inc)
+			return false, nil
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := s.Reaction(edge.Axial)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return f, incs
+	}
+	free, whole := run(RampOptions{Increments: 1})
+	if len(whole) != 1 || whole[0].Iterations <= 2 {
+		t.Fatalf("without a budget: %+v; the case needs one increment of more than 2 iterations", whole)
+	}
+	const budget, budgetCuts = 2, 2
+	held, incs := run(RampOptions{Increments: 1, Budget: budget, BudgetCuts: budgetCuts})
+	if len(incs) < 2 {
+		t.Errorf("with a budget of %d iterations the step was not halved: %+v", budget, incs)
+	}
+	for _, inc := range incs {
+		if inc.Cuts < budgetCuts && inc.Iterations > budget {
+			t.Errorf("increment %d: %d iterations after %d halvings, budget %d", inc.Index, inc.Iterations, inc.Cuts, budget)
+		}
+	}
+	if math.Abs(held-free) > 1e-6*math.Abs(free) {
+		t.Errorf("end force %.9g with the budget, %.9g without: an elastic bar's force does not depend on the path", held, free)
+	}
+}
