@@ -94,8 +94,9 @@ type Solver struct {
 	Timing  Timing
 	lastRes float64
 	// before, lastStep: the state before the last ramp increment and that
-	// increment's size, for the predictor; pendingStep the size of the
-	// increment being solved.
+	// increment's change of the prescribed value (signed), for the
+	// predictor; pendingStep that of the
+	// increment being solved (0: none).
 	before                []float64
 	lastStep, pendingStep float64
 	// forcesValid: fint holds the internal and contact forces at u (set by
@@ -471,7 +472,7 @@ const (
 
 // Commit accepts the current state as converged.
 func (s *Solver) Commit() {
-	if s.pendingStep > 0 {
+	if s.pendingStep != 0 {
 		if s.before == nil {
 			s.before = make([]float64, len(s.done))
 		}

@@ -170,6 +170,32 @@ func TestRampFirstIncrementPredicted(t *testing.T) {
 	}
 }
 
+// The first increment of a ramp that follows another extrapolates the
+// last increment scaled by the change of the prescribed value, not by the
+// fractions of the two ramps' spans (a release of the shell end is a row
+// of short ramps): on a linear model the extrapolation is then the
+// solution, and no Newton step is left to take.
+func TestRampExtrapolatesAcrossRamps(t *testing.T) {
+	m, edge := barModel(t, stackedBar(t))
+	s, err := NewSolver(m, nil, NewtonOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	none := func(Increment) (bool, error) { return false, nil }
+	if err := s.Ramp(edge.Axial, 0.1, RampOptions{Increments: 10}, none); err != nil {
+		t.Fatal(err)
+	}
+	err = s.Ramp(edge.Axial, 0.13, RampOptions{Increments: 1}, func(inc Increment) (bool, error) {
+		if inc.Iterations != 0 {
+			t.Errorf("first increment of the second ramp: %d Newton steps after the extrapolation, want 0", inc.Iterations)
+		}
+		return false, nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+}
+
 // TestRampBudget: an increment that needs more Newton iterations than its
 // budget is halved rather than iterated on; once halved BudgetCuts times
 // it gets the solver's full limit, so the ramp still reaches its end. A

@@ -52,7 +52,9 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 		if err := s.m.SetValue(d, start+next*span); err != nil {
 			return err
 		}
-		if err := s.predict(next - at); err != nil {
+		// In units of the prescribed value, not of this ramp's span: the
+		// increment extrapolated may be the last of another ramp.
+		if err := s.predict((next - at) * span); err != nil {
 			return err
 		}
 		s.log(fmt.Sprintf("increment %d: %.6g → %.6g", count+1, start+at*span, start+next*span))

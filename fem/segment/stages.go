@@ -232,6 +232,11 @@ func (g *segment) tighteningWashers(on bool) {
 // midpoint (the safeguard of Dekker's method).
 func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 	last := 0.0 // the edge position of the step before
+	// reach: how far one ramp increment may move the edge — twice the
+	// largest move that has converged without halving. A secant step far
+	// beyond what the joint took last time would only be halved down to
+	// it, each failed attempt costing a full solve.
+	reach := math.Inf(1)
 	at := func(x float64) (float64, error) {
 		// A secant step that turns back starts from the tangent's
 		// response: extrapolating the step before would push the wrong way.
@@ -240,9 +245,23 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 			s.RestartRamp()
 		}
 		last = from
-		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: 1}, func(fem.Increment) (bool, error) { return false, nil })
+		n := 1
+		if move := math.Abs(x - from); move > reach {
+			n = int(math.Ceil(move / reach))
+		}
+		done, good := from, 0.0
+		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: n}, func(inc fem.Increment) (bool, error) {
+			if inc.Cuts == 0 {
+				good = math.Max(good, math.Abs(inc.Value-done))
+			}
+			done = inc.Value
+			return false, nil
+		})
 		if err != nil {
 			return 0, err
+		}
+		if good > 0 {
+			reach = 2 * good
 		}
 		return s.Reaction(g.edge.Axial)
 	}
