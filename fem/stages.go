@@ -14,6 +14,22 @@ type Increment struct {
 	Cuts       int     // step halvings needed on the way to it
 }
 
+// RampError reports a ramp that found no equilibrium even for its
+// smallest step: Reached is the last converged value, Step the last
+// change of the prescribed value tried from it, after Cuts halvings; Err
+// is that try's failure.
+type RampError struct {
+	Reached, Target, Step float64
+	Cuts                  int
+	Err                   error
+}
+
+func (e *RampError) Error() string {
+	return fmt.Sprintf("fem: ramp stopped at %.4g of %.4g after %d step halvings: %v", e.Reached, e.Target, e.Cuts, e.Err)
+}
+
+func (e *RampError) Unwrap() error { return e.Err }
+
 // RampOptions control a displacement-controlled ramp.
 type RampOptions struct {
 	Increments int // equal steps to the target (≥ 1)
@@ -25,8 +41,8 @@ type RampOptions struct {
 // MaxCuts times in a row) and growing it back after success. After every
 // converged increment the state is committed and done is called; done may
 // stop the ramp by returning true. A ramp that cannot go on returns a
-// *NotConvergedError and leaves the solver at the last converged
-// increment.
+// *RampError wrapping the last *NotConvergedError and leaves the solver
+// at the last converged increment.
 func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Increment) (stop bool, err error)) error {
 	if opt.Increments < 1 {
 		return fmt.Errorf("fem: ramp with %d increments: need at least 1", opt.Increments)
@@ -58,7 +74,7 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 				return err
 			}
 			if cuts == opt.MaxCuts {
-				return fmt.Errorf("fem: ramp stopped at %.4g of %.4g after %d step halvings: %w", start+at*span, target, cuts, err)
+				return &RampError{Reached: start + at*span, Target: target, Step: (next - at) * span, Cuts: cuts, Err: err}
 			}
 			cuts++
 			step /= 2
