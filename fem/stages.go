@@ -16,15 +16,25 @@ type Increment struct {
 
 // RampError reports a ramp that found no equilibrium even for its
 // smallest step: Reached is the last converged value, Step the last
-// change of the prescribed value tried from it, after Cuts halvings; Err
-// is that try's failure.
+// change of the prescribed value tried from it, after Cuts halvings in a
+// row; Stalled says the step had fallen below minRampStep of the nominal
+// increment. Err is the last try's failure.
 type RampError struct {
 	Reached, Target, Step float64
 	Cuts                  int
+	Stalled               bool
 	Err                   error
 }
 
+// minRampStep is the smallest step a ramp tries, as a fraction of its
+// nominal increment: a ramp that has come down to a millionth of it is
+// not advancing.
+const minRampStep = 1e-6
+
 func (e *RampError) Error() string {
+	if e.Stalled {
+		return fmt.Sprintf("fem: ramp stopped at %.4g of %.4g: its step fell below %g of an increment: %v", e.Reached, e.Target, minRampStep, e.Err)
+	}
 	return fmt.Sprintf("fem: ramp stopped at %.4g of %.4g after %d step halvings: %v", e.Reached, e.Target, e.Cuts, e.Err)
 }
 
@@ -73,8 +83,14 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 			if !IsNotConverged(err) {
 				return err
 			}
-			if cuts == opt.MaxCuts {
-				return &RampError{Reached: start + at*span, Target: target, Step: (next - at) * span, Cuts: cuts, Err: err}
+			// The halvings in a row are bounded, and so is the step: after
+			// a success at the cut size the count starts afresh, so a
+			// state the solver cannot leave (a path that turns back,
+			// approached ever more closely) would otherwise be met with
+			// ever smaller increments that all converge, without end.
+			stalled := step/2 < minRampStep/float64(opt.Increments)
+			if cuts == opt.MaxCuts || stalled {
+				return &RampError{Reached: start + at*span, Target: target, Step: (next - at) * span, Cuts: cuts, Stalled: stalled, Err: err}
 			}
 			cuts++
 			step /= 2
