@@ -500,13 +500,26 @@ func (s *Solver) Revert() {
 // equilibrium solve where that is a state of the structure, not a missing
 // support: with yielding or large deformation the tangent of an iterate,
 // or past a limit point, can be indefinite, and the step is to be cut.
+// The error carries what the solve's iterations showed, like any other
+// failed solve. The failing pivot is named for the log only: under a
+// fill-reducing ordering it is where the elimination noticed the lost
+// stiffness, which need not be where the joint gives way.
 func (s *Solver) unstable(err error) error {
 	if !s.m.HasHistory() {
 		if _, small := s.m.kin.(SmallStrain); small {
 			return err
 		}
 	}
-	return &NotConvergedError{Iterations: s.Timing.Iterations, Residual: s.lastRes, Reason: "the tangent is not positive definite: " + err.Error()}
+	e := s.watch.failure(s.m, max(s.watch.its-1, 0), s.lastRes, "the tangent is not positive definite")
+	e.Indefinite = true
+	var ue *UnsupportedError
+	if errors.As(err, &ue) {
+		e.Pivot = s.m.describePlace(ue.Dof)
+		e.Reason += " (the factorization met a pivot ≤ 0 at " + e.Pivot + ")"
+	} else {
+		e.Reason += ": " + err.Error()
+	}
+	return e
 }
 
 // patience lets the solves until the returned function is called take

@@ -1,7 +1,9 @@
 package fem
 
 import (
+	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"flangeseg/material"
@@ -259,5 +261,56 @@ func TestRampBudget(t *testing.T) {
 	}
 	if math.Abs(held-free) > 1e-6*math.Abs(free) {
 		t.Errorf("end force %.9g with the budget, %.9g without: an elastic bar's force does not depend on the path", held, free)
+	}
+}
+
+// A tangent that is not positive definite in a model with a
+// path-dependent law is a failed solve, not a setup error: the ramp halves
+// its step, then stops with a RampError around a NotConvergedError that
+// says the tangent lost positive definiteness, names the failing pivot's
+// place with its region, and carries the residual of the solve's own
+// iterations (not the run's iteration count).
+func TestIndefiniteTangentIsNotConverged(t *testing.T) {
+	msh := stackedBar(t)
+	laws := map[string]material.Law{"steel": recorder{material.Elastic{E: 210000, Nu: 0.3}}}
+	m, err := NewModel(msh, laws, Options{Condition: material.PlaneStress})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Held in z only: nothing holds the bar in x.
+	if err := m.FixSet("bottom", Z, 0); err != nil {
+		t.Fatal(err)
+	}
+	edge, err := m.AddRigidEdge("top", mesh.Point{X: 5, Z: 100}, RigidEdgeOptions{FixRotation: true, LateralFree: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := m.Fix(edge.Axial, 0); err != nil {
+		t.Fatal(err)
+	}
+	s, err := NewSolver(m, nil, NewtonOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	err = s.Ramp(edge.Axial, 0.1, RampOptions{Increments: 2, MaxCuts: 2}, func(Increment) (bool, error) { return false, nil })
+	var re *RampError
+	if !errors.As(err, &re) {
+		t.Fatalf("got %v, want a RampError", err)
+	}
+	if re.Cuts != 2 || re.Reached != 0 || math.Abs(re.Step-0.1/8) > 1e-15 {
+		t.Errorf("ramp error %+v: want 2 halvings from 0 with a last step of 0.0125 mm", re)
+	}
+	var nc *NotConvergedError
+	if !errors.As(err, &nc) {
+		t.Fatalf("got %v, want a NotConvergedError inside", err)
+	}
+	if !nc.Indefinite || !strings.Contains(nc.Reason, "not positive definite") {
+		t.Errorf("reason %q (indefinite %v): want the tangent named", nc.Reason, nc.Indefinite)
+	}
+	if !strings.Contains(nc.Pivot, "node ") || !strings.HasSuffix(nc.Pivot, " in bar") && !strings.HasSuffix(nc.Pivot, " in slice") {
+		t.Errorf("pivot %q: want a node with its region", nc.Pivot)
+	}
+	if nc.Iterations != 0 || !(nc.First > 0) || nc.Best != nc.First {
+		t.Errorf("iterations %d, first %g, best %g: want the solve's own first residual and no step taken", nc.Iterations, nc.First, nc.Best)
 	}
 }

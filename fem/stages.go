@@ -14,6 +14,32 @@ type Increment struct {
 	Cuts       int     // step halvings needed on the way to it
 }
 
+// RampError reports a ramp that found no equilibrium even for its
+// smallest step: Reached is the last converged value, Step the last
+// change of the prescribed value tried from it, after Cuts halvings in a
+// row; Stalled says the step had fallen below minRampStep of the nominal
+// increment. Err is the last try's failure.
+type RampError struct {
+	Reached, Target, Step float64
+	Cuts                  int
+	Stalled               bool
+	Err                   error
+}
+
+// minRampStep is the smallest step a ramp tries, as a fraction of its
+// nominal increment: a ramp that has come down to a millionth of it is
+// not advancing.
+const minRampStep = 1e-6
+
+func (e *RampError) Error() string {
+	if e.Stalled {
+		return fmt.Sprintf("fem: ramp stopped at %.4g of %.4g: its step fell below %g of an increment: %v", e.Reached, e.Target, minRampStep, e.Err)
+	}
+	return fmt.Sprintf("fem: ramp stopped at %.4g of %.4g after %d step halvings: %v", e.Reached, e.Target, e.Cuts, e.Err)
+}
+
+func (e *RampError) Unwrap() error { return e.Err }
+
 // RampOptions control a displacement-controlled ramp.
 type RampOptions struct {
 	Increments int // equal steps to the target (≥ 1)
@@ -34,8 +60,8 @@ type RampOptions struct {
 // MaxCuts times in a row) and growing it back after success. After every
 // converged increment the state is committed and done is called; done may
 // stop the ramp by returning true. A ramp that cannot go on returns a
-// *NotConvergedError and leaves the solver at the last converged
-// increment.
+// *RampError wrapping the last *NotConvergedError and leaves the solver
+// at the last converged increment.
 func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Increment) (stop bool, err error)) error {
 	if opt.Increments < 1 {
 		return fmt.Errorf("fem: ramp with %d increments: need at least 1", opt.Increments)
@@ -73,8 +99,14 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 			if !IsNotConverged(err) {
 				return err
 			}
-			if cuts == opt.MaxCuts {
-				return fmt.Errorf("fem: ramp stopped at %.4g of %.4g after %d step halvings: %w", start+at*span, target, cuts, err)
+			// The halvings in a row are bounded, and so is the step: after
+			// a success at the cut size the count starts afresh, so a
+			// state the solver cannot leave (a path that turns back,
+			// approached ever more closely) would otherwise be met with
+			// ever smaller increments that all converge, without end.
+			stalled := step/2 < minRampStep/float64(opt.Increments)
+			if cuts == opt.MaxCuts || stalled {
+				return &RampError{Reached: start + at*span, Target: target, Step: (next - at) * span, Cuts: cuts, Stalled: stalled, Err: err}
 			}
 			cuts++
 			step /= 2

@@ -33,6 +33,12 @@ type analysis struct {
 	// retried: made a second time with the washers held sticking while
 	// the bolt was tightened.
 	retried bool
+	// plastic holds the plastic strains of the last recorded state;
+	// giving is the point whose strain grew most in reaching it (found:
+	// one grew), for the diagnosis of a joint that gives way.
+	plastic pointScalars
+	giving  yielding
+	found   bool
 
 	timing   fem.Timing
 	equation int
@@ -72,7 +78,7 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		if fem.IsNotConverged(err) {
 			res.failure = fmt.Errorf("preload: %w", err)
 			res.ending = "the preload stage did not converge"
-			res.diagnosis = g.diagnose("preload", "the unloaded state", err)
+			res.diagnosis = g.diagnose("preload", "the unloaded state", err, nil)
 			res.timing = s.Timing
 			return res, nil
 		}
@@ -132,7 +138,7 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		}
 		res.failure = err
 		res.ending = "the tension stage did not converge"
-		res.diagnosis = g.diagnose("tension", lastState(res.rows), err)
+		res.diagnosis = g.diagnose("tension", lastState(res.rows), err, &tensionPath{rows: res.rows, giving: res.giving, found: res.found})
 	}
 	return res, nil
 }
@@ -383,6 +389,8 @@ func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *figur
 		ps = g.readPlastic(sol.Points)
 		row.MaxPlastic, row.MaxDamage, row.SitePlastic = ps.maxPlastic, ps.maxDmg, ps.site
 		row.BoltDamage, row.BoltDamageWhere = ps.boltDamage, ps.boltDamageWhere
+		res.giving, res.found = g.fastestYielding(res.plastic, ps.points, sol.Points)
+		res.plastic = ps.points
 	}
 	if keep {
 		return g.keepState(s, res, label, *row, sol, ps.points)
