@@ -137,7 +137,10 @@ func Read(rows []Row, in Input) Joint {
 	f.MaxPlasticStrain, f.MaxDamage = last.MaxPlastic, last.MaxDamage
 	if f.HandUltimateKN > 0 {
 		f.FEToHandUltimate = f.PeakLoadKN / f.HandUltimateKN
-		rising := len(rows) > 1 && last.Z >= rows[len(rows)-2].Z
+		// Rising at the end means the last row is the largest and still
+		// climbing: a path that fell from its peak and rises again by a
+		// rounding in its last increment has shown its peak.
+		rising := len(rows) > 1 && last.Z >= rows[len(rows)-2].Z && last.Z/1e3 >= f.PeakLoadKN
 		if rising {
 			f.FEVersusHand = fmt.Sprintf("FE largest Z %.1f kN is %.2f × the hand ultimate load %.1f kN, and still rising at the end: a lower bound of the FE ultimate load", f.PeakLoadKN, f.FEToHandUltimate, f.HandUltimateKN)
 		} else {

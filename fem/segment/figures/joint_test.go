@@ -2,7 +2,10 @@ package figures
 
 import (
 	"math"
+	"strings"
 	"testing"
+
+	"flangeseg/post/handcalc"
 )
 
 // crossing and At interpolate linearly between rows (arithmetic written
@@ -27,5 +30,31 @@ func TestCrossingAndAt(t *testing.T) {
 	}
 	if _, ok := At(rows, 300e3, func(r Row) float64 { return r.U }); ok {
 		t.Error("At beyond the data reported a value")
+	}
+}
+
+// TestStillRising: the FE ultimate load is called a lower bound only when
+// the run ended on its largest segment force, still climbing; a path that
+// fell from its peak and rose by a rounding in its last increment has
+// shown its peak (a consistency check of the words, no published value).
+func TestStillRising(t *testing.T) {
+	row := func(u, z float64) Row { return Row{Stage: "tension", U: u, Z: z * 1e3} }
+	in := Input{Yielding: true, Hand: handcalc.Results{CurveEnd: 500e3}}
+	cases := []struct {
+		name   string
+		rows   []Row
+		rising bool
+	}{
+		{"climbing", []Row{row(0, 0), row(1, 300), row(2, 450), row(3, 520)}, true},
+		{"fell from its peak", []Row{row(0, 0), row(1, 300), row(2, 614), row(3, 588)}, false},
+		{"fell, then a rounding up", []Row{row(0, 0), row(1, 300), row(2, 614), row(3, 588), row(3.001, 588.000006)}, false},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			f := Read(append([]Row{{Stage: "preload"}}, c.rows...), in)
+			if got := strings.Contains(f.FEVersusHand, "still rising"); got != c.rising {
+				t.Errorf("%q: still rising %v, want %v", f.FEVersusHand, got, c.rising)
+			}
+		})
 	}
 }
