@@ -308,6 +308,28 @@ func TestFiniteStrainRigidRotation(t *testing.T) {
 // end force and the solution.
 func uniaxialBar(t *testing.T, c material.Condition, law material.Law, lambda float64, steps int) (float64, *Solution) {
 	t.Helper()
+	m, edge := stretchedBlock(t, c, law)
+	s, err := NewSolver(m, nil, NewtonOptions{Tolerance: 1e-11})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Ramp(edge.Axial, 20*(lambda-1), RampOptions{Increments: steps}, func(Increment) (bool, error) { return false, nil }); err != nil {
+		t.Fatalf("%v: %v", c, err)
+	}
+	force, err := s.Reaction(edge.Axial)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sol, err := s.Snapshot()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return force, sol
+}
+
+// stretchedBlock is the model of uniaxialBar before any stretch.
+func stretchedBlock(t *testing.T, c material.Condition, law material.Law) (*Model, RigidEdge) {
+	t.Helper()
 	msh, err := mesh.Rect(0, 0, 10, 20, 2, 3, mesh.Region{Name: "bar", Thickness: 2, Material: "steel"}, mesh.Quad8)
 	if err != nil {
 		t.Fatal(err)
@@ -329,22 +351,7 @@ func uniaxialBar(t *testing.T, c material.Condition, law material.Law, lambda fl
 	if err := m.Fix(edge.Axial, 0); err != nil {
 		t.Fatal(err)
 	}
-	s, err := NewSolver(m, nil, NewtonOptions{Tolerance: 1e-11})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := s.Ramp(edge.Axial, 20*(lambda-1), RampOptions{Increments: steps}, func(Increment) (bool, error) { return false, nil }); err != nil {
-		t.Fatalf("%v: %v", c, err)
-	}
-	force, err := s.Reaction(edge.Axial)
-	if err != nil {
-		t.Fatal(err)
-	}
-	sol, err := s.Snapshot()
-	if err != nil {
-		t.Fatal(err)
-	}
-	return force, sol
+	return m, edge
 }
 
 // Hencky elasticity in uniaxial tension to 50 % stretch: the law's stress
