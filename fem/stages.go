@@ -18,6 +18,12 @@ type Increment struct {
 type RampOptions struct {
 	Increments int // equal steps to the target (≥ 1)
 	MaxCuts    int // halvings of a failing step before giving up (default 6)
+	// MinStep, if positive, is the smallest step, as a fraction of the
+	// ramp, that a failing step may be halved to, whatever the halvings
+	// in a row: a ramp whose end cannot be reached but whose positions
+	// short of it can would otherwise halve its way towards it without
+	// end.
+	MinStep float64
 }
 
 // Ramp moves the prescribed dof d from its current value to target in
@@ -57,7 +63,7 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 			if !IsNotConverged(err) {
 				return err
 			}
-			if cuts == opt.MaxCuts {
+			if cuts == opt.MaxCuts || step/2 < opt.MinStep {
 				return fmt.Errorf("fem: ramp stopped at %.4g of %.4g after %d step halvings: %w", start+at*span, target, cuts, err)
 			}
 			cuts++

@@ -196,6 +196,7 @@ func printSummary(w io.Writer, s results.Summary, dir string, took time.Duration
 	}
 	if c := j.Closure; c != nil {
 		fmt.Fprintf(w, "  face after preload    %s\n", c.Note)
+		fmt.Fprintf(w, "  closing force         %.1f kN (%.0f %% of the preload), gap left %.3g mm\n", c.ClosingForceKN, 100*c.ClosingShare, c.GapLeftMM)
 	}
 	fmt.Fprintf(w, "  opening load          %s\n", opening)
 	fmt.Fprintf(w, "  decompression load    %s\n", kNOr(j.DecompressionKN))

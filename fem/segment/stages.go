@@ -33,6 +33,9 @@ type analysis struct {
 	// retried: made a second time with the washers held sticking while
 	// the bolt was tightened.
 	retried bool
+	// tightening are the states with the shell end free on the way to
+	// the preload of a model whose faces start apart, in order.
+	tightening []tighteningState
 
 	timing   fem.Timing
 	equation int
@@ -143,6 +146,11 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 // are repeated until the bolt force holds its target within 0.5 %. It
 // returns the edge position.
 //
+// Where the faces start apart (contact.taper, contact.parallel_gap) the
+// held edge would make the shell stubs stretch while the gap closes, so
+// the bolt is first brought up in levels of the shortening, each released
+// (tightenInLevels); the force the closing took is read off those states.
+//
 // While the bolt is tightened the washers are held pressed
 // (contact.Pair.Glue), so a Newton iterate cannot lift the bolt off both
 // and leave it floating; after the first round they follow their own law.
@@ -152,55 +160,88 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 // of the first steps, at the price of a locked-in friction state that
 // differs a little from a tightening with sliding washers.
 func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
-	force := func() (float64, error) {
-		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
-		return f, err
-	}
 	g.tighteningWashers(true)
+	tighten := g.tighten
+	if g.facesStartApart() {
+		tighten = g.tightenInLevels
+	}
+	v, err := tighten(s, res)
+	if err != nil {
+		return 0, err
+	}
+	// The bolt is tight: from here on the washers follow their own law,
+	// and the next rounds correct the preload for it.
+	g.tighteningWashers(false)
+	if _, err := s.Equilibrium(); err != nil {
+		s.Revert()
+		return 0, fmt.Errorf("preload: the washers, let go after tightening: %w", err)
+	}
+	s.Commit()
+	if v, err = g.releaseAndNote(s, res, v); err != nil {
+		return 0, err
+	}
+	return g.settlePreload(s, res, v)
+}
+
+// tighten is the first round of a preload: the slice is shortened to the
+// target force (or by the nut turn) with the edge held, then released.
+func (g *segment) tighten(s *fem.Solver, res *analysis) (float64, error) {
+	if err := g.shortenHeld(s, res); err != nil {
+		return 0, err
+	}
+	return g.release(s, 0)
+}
+
+// shortenHeld brings the bolt to its target force (or its nut-turn
+// shortening) with the loaded edge held where it is, and adds the solves
+// to those of the preload.
+func (g *segment) shortenHeld(s *fem.Solver, res *analysis) error {
 	target := g.der.PreloadForce
-	v := 0.0
-	for round := 0; round < 8; round++ {
-		var pr fem.PreloadResult
-		var err error
-		if target > 0 {
-			pr, err = s.Preload("bolt_preload", target, force, fem.PreloadOptions{Estimate: g.preloadEstimate(target)})
-		} else {
-			pr, err = s.Shorten("bolt_preload", g.der.PreloadShortening, g.slice, 4, force)
-		}
-		pr.Iterations += res.preload.Iterations
-		res.preload = pr
-		if err != nil {
-			return 0, err
-		}
-		if v, err = g.release(s, v); err != nil {
-			return 0, err
-		}
-		if round == 0 {
-			// The bolt is tight: from here on the washers follow their own
-			// law, and the next rounds correct the preload for it.
-			g.tighteningWashers(false)
-			if _, err := s.Equilibrium(); err != nil {
-				s.Revert()
-				return 0, fmt.Errorf("preload: the washers, let go after tightening: %w", err)
-			}
-			s.Commit()
-			if v, err = g.release(s, v); err != nil {
-				return 0, err
-			}
-		}
-		f, err := force()
+	var pr fem.PreloadResult
+	var err error
+	if target > 0 {
+		pr, err = s.Preload("bolt_preload", target, g.boltForce(s), fem.PreloadOptions{Estimate: g.preloadEstimate(target)})
+	} else {
+		pr, err = s.Shorten("bolt_preload", g.der.PreloadShortening, g.slice, 4, g.boltForce(s))
+	}
+	pr.Iterations += res.preload.Iterations
+	res.preload = pr
+	return err
+}
+
+// settlePreload corrects the bolt force, in rounds of shortening with the
+// edge held and release, until it holds its target within 0.5 % with the
+// shell end free (a nut turn keeps its shortening). It returns the edge
+// position.
+func (g *segment) settlePreload(s *fem.Solver, res *analysis, v float64) (float64, error) {
+	target := g.der.PreloadForce
+	for round := 0; ; round++ {
+		f, err := g.boltForce(s)()
 		if err != nil {
 			return 0, err
 		}
 		res.preload.Force = f
 		if target == 0 || math.Abs(f-target) <= 0.005*target {
-			break
+			return v, nil
 		}
 		if round == 7 {
 			return 0, fmt.Errorf("preload: the bolt force did not settle at %.1f kN with the shell end free", target/1e3)
 		}
+		if err := g.shortenHeld(s, res); err != nil {
+			return 0, err
+		}
+		if v, err = g.releaseAndNote(s, res, v); err != nil {
+			return 0, err
+		}
 	}
-	return v, nil
+}
+
+// boltForce measures the bolt force at the contact plane.
+func (g *segment) boltForce(s *fem.Solver) func() (float64, error) {
+	return func() (float64, error) {
+		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
+		return f, err
+	}
 }
 
 // tighteningWashers glues the washers while on (see preload) and gives
@@ -218,9 +259,18 @@ func (g *segment) tighteningWashers(on bool) {
 // rather than in one jump; once two positions with reactions of opposite
 // sign are known, a secant step that leaves them is replaced by their
 // midpoint (the safeguard of Dekker's method).
+//
+// Where the faces start apart, a position that the ramp cannot reach is
+// replaced by the nearest one it reached: there, a point of the face can
+// chatter at one position of the edge while the positions just short of
+// it converge, and the ramp would halve its way towards it without end.
 func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 	last := 0.0 // the edge position of the step before
-	at := func(x float64) (float64, error) {
+	opt := fem.RampOptions{Increments: 1}
+	if g.facesStartApart() {
+		opt.MinStep = 1.0 / 64
+	}
+	at := func(x float64) (float64, float64, error) {
 		// A secant step that turns back starts from the tangent's
 		// response: extrapolating the step before would push the wrong way.
 		from := s.Model().Value(g.edge.Axial)
@@ -228,11 +278,13 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 			s.RestartRamp()
 		}
 		last = from
-		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: 1}, func(fem.Increment) (bool, error) { return false, nil })
-		if err != nil {
-			return 0, err
+		err := s.Ramp(g.edge.Axial, x, opt, func(fem.Increment) (bool, error) { return false, nil })
+		reached := s.Model().Value(g.edge.Axial)
+		if err != nil && (opt.MinStep == 0 || !fem.IsNotConverged(err) || reached == from) {
+			return 0, 0, err
 		}
-		return s.Reaction(g.edge.Axial)
+		z, err := s.Reaction(g.edge.Axial)
+		return reached, z, err
 	}
 	defer s.RestartRamp()
 	z0, err := s.Reaction(g.edge.Axial)
@@ -250,12 +302,12 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 		}
 	}
 	note(v, z0)
-	v1 := v - 1e-3
+	v1, z1 := v-1e-3, 0.0
 	for it := 0; it < 60; it++ {
 		if math.Abs(z0) <= 1e-7*scale {
 			return v, nil
 		}
-		z1, err := at(v1)
+		v1, z1, err = at(v1)
 		if err != nil {
 			return 0, err
 		}

@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 
+	"flangeseg/fem/segment/figures"
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post/handcalc"
 	"flangeseg/post/report"
@@ -115,6 +116,8 @@ func (n *runNote) preload() report.Quantities {
 		rows = append(rows,
 			report.Quantity{Name: "initial gap between the faces where they are meant to touch, largest", Value: num(c.InitialGapMM, "mm"), Source: "contact.taper, contact.parallel_gap"},
 			report.Quantity{Name: "gap left open after preload, largest", Value: num(c.GapLeftMM, "mm"), Source: srcFE + fmt.Sprintf(", at x = %.1f mm; ", c.GapLeftAtXMM) + c.Note},
+			report.Quantity{Name: "bolt force the closing took, tightened in levels with the shell end free", Value: num(c.ClosingForceKN, "kN"), Source: srcFE + closingSource(c)},
+			report.Quantity{Name: "bolt force the closing took / preload reached", Value: num(c.ClosingShare, report.Dimensionless), Source: srcFE},
 		)
 	}
 	return report.Quantities{Caption: "Preload of the bolt", Rows: rows}
@@ -331,4 +334,14 @@ func (n *runNote) notes() []string {
 		out = append(out, "The analysis stopped before its end ("+n.sum.Failure+"); every result comes from the increments that converged.")
 	}
 	return out
+}
+
+// closingSource says how the closing force was read and to what
+// resolution.
+func closingSource(c *figures.Closure) string {
+	if len(c.ClosingBetweenKN) != 2 || c.GapLeftMM > figures.OpenGap {
+		return "; the gap stays open, so the whole preload went into closing it"
+	}
+	return fmt.Sprintf("; where the largest gap inside the zones falls to 1 µm, read linearly in the gap between the tightening levels at %.1f and %.1f kN (resolution: one level)",
+		c.ClosingBetweenKN[0], c.ClosingBetweenKN[1])
 }

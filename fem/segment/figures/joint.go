@@ -218,4 +218,13 @@ type Closure struct {
 	GapLeftMM    float64 `json:"gap_left_after_preload_mm"`
 	GapLeftAtXMM float64 `json:"gap_left_at_x_mm"`
 	Note         string  `json:"note"`
+	// ClosingForceKN is the bolt force at which the largest gap inside
+	// the zones fell to 1 µm on a tightening with the shell end free (the
+	// whole preload where the gap stays open), read linearly in the gap
+	// between the two tightening levels that bracket it, whose bolt
+	// forces ClosingBetweenKN gives; ClosingShare is its share of the
+	// preload reached.
+	ClosingForceKN   float64   `json:"closing_force_kN"`
+	ClosingShare     float64   `json:"closing_force_share_of_preload"`
+	ClosingBetweenKN []float64 `json:"closing_force_between_levels_kN,omitempty"`
 }
