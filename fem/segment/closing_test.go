@@ -73,8 +73,8 @@ func TestClosingForce(t *testing.T) {
 		{"taper 0.1°", func(s *modelfile.Spec) { s.Contact.Taper = 0.1 }, false},
 		{"taper 0.2°", func(s *modelfile.Spec) { s.Contact.Taper = 0.2 }, false},
 		{"parallel gap 0.2 mm", func(s *modelfile.Spec) { s.Contact.ParallelGap = 0.2 }, false},
-		{"taper −0.2° at 30 % of F_p,C", func(s *modelfile.Spec) {
-			s.Contact.Taper = -0.2
+		{"taper −0.3° at 30 % of F_p,C", func(s *modelfile.Spec) {
+			s.Contact.Taper = -0.3
 			s.Preload = modelfile.PreloadSpec{Fraction: &fraction}
 		}, true},
 	}
