@@ -30,6 +30,11 @@ type NotConvergedError struct {
 	// Cycling lists, per contact pair, the points that changed status in
 	// the second half of the iterations.
 	Cycling []Cycling
+	// Indefinite: the solve stopped because the tangent was not positive
+	// definite (a state with no stiffness against some motion); Pivot
+	// names the dof where the factorization met a pivot ≤ 0.
+	Indefinite bool
+	Pivot      string
 }
 
 // Cycling describes the contact points of one pair that kept changing
@@ -111,6 +116,7 @@ func (s *Solver) iterationNote() string {
 
 // watch keeps what a diagnosis of a failed solve needs.
 type watch struct {
+	its         int // the last iteration recorded
 	first, best float64
 	largest     float64 // the largest out-of-balance force of the last iteration, N
 	at          int     // its dof (−1: none); named only when a solve fails
@@ -122,6 +128,7 @@ type watch struct {
 
 // record notes iteration it with relative residual rel and residual r.
 func (w *watch) record(s *Solver, it int, rel float64, r []float64) {
+	w.its = it
 	if it == 1 {
 		w.first, w.best = rel, rel
 	}

@@ -94,8 +94,9 @@ type Solver struct {
 	Timing  Timing
 	lastRes float64
 	// before, lastStep: the state before the last ramp increment and that
-	// increment's size, for the predictor; pendingStep the size of the
-	// increment being solved.
+	// increment's change of the prescribed value (signed), for the
+	// predictor; pendingStep that of the
+	// increment being solved (0: none).
 	before                []float64
 	lastStep, pendingStep float64
 	// forcesValid: fint holds the internal and contact forces at u (set by
@@ -123,6 +124,9 @@ type Solver struct {
 	// and corrections (see patience).
 	patient bool
 	watch   watch
+	// budget: the Newton iterations the equilibrium solve under way may
+	// take in all (RampOptions.Budget), 0 for none.
+	budget int
 }
 
 // coupling is a dense unsymmetric block over equations (−1: none).
@@ -195,7 +199,13 @@ func (s *Solver) Equilibrium() (int, error) {
 	}
 	total := 0
 	for aug := 0; ; aug++ {
-		n, err := s.newton(fext)
+		limit := s.opt.MaxIterations
+		if s.budget > 0 {
+			// A multiplier update after a converged round moves the state
+			// little; it gets a few iterations whatever is left.
+			limit = min(limit, max(s.budget-total, min(augmentFloor, s.budget)))
+		}
+		n, err := s.newton(fext, limit)
 		total += n
 		if err != nil {
 			return total, err
@@ -216,7 +226,7 @@ func (s *Solver) Equilibrium() (int, error) {
 	}
 }
 
-func (s *Solver) newton(fext []float64) (int, error) {
+func (s *Solver) newton(fext []float64, limit int) (int, error) {
 	du := make([]float64, s.m.nEq)
 	// Contact makes the residual piecewise smooth: a point on the edge of
 	// the contact zone or on the stick–slip boundary changes status with
@@ -283,6 +293,16 @@ func (s *Solver) newton(fext []float64) (int, error) {
 			prev, step = math.Inf(1), 1
 			continue
 		}
+		// Checked before the line search, so that the steps it cuts back
+		// count against the limit too.
+		if math.IsNaN(rel) || it > limit {
+			s.thaw()
+			reason := "the residual does not fall below the tolerance"
+			if limit < s.opt.MaxIterations {
+				reason += fmt.Sprintf(" within the increment's budget of %d iterations (multiplier updates included)", s.budget)
+			}
+			return it - 1, s.watch.failure(s.m, it-1, rel, reason)
+		}
 		// Frozen points keep their branch, so the sliding couplings of the
 		// frozen sliding points stay valid: keep them, for quadratic steps.
 		s.coupled = it <= coupledIterations || s.anyFrozen
@@ -314,10 +334,6 @@ func (s *Solver) newton(fext []float64) (int, error) {
 		}
 		prev, step = nr, 1
 		copy(last, s.u)
-		if math.IsNaN(rel) || it > s.opt.MaxIterations {
-			s.thaw()
-			return it - 1, s.watch.failure(s.m, it-1, rel, "the residual does not fall below the tolerance")
-		}
 		if it >= freezeAfter && rel < freezeBelow*s.watch.first && s.corrections <= s.maxCorrections() {
 			// Freezing suits a few points chattering at a kink; where many
 			// flip, the active set is still being found, and freezing it
@@ -449,11 +465,14 @@ const (
 	patientIterations  = 60
 	patientCorrections = 20
 	frozenTolerance    = 10
+	// augmentFloor: the Newton iterations a multiplier update may take
+	// even where an increment's budget (RampOptions.Budget) is spent.
+	augmentFloor = 3
 )
 
 // Commit accepts the current state as converged.
 func (s *Solver) Commit() {
-	if s.pendingStep > 0 {
+	if s.pendingStep != 0 {
 		if s.before == nil {
 			s.before = make([]float64, len(s.done))
 		}
@@ -481,13 +500,26 @@ func (s *Solver) Revert() {
 // equilibrium solve where that is a state of the structure, not a missing
 // support: with yielding or large deformation the tangent of an iterate,
 // or past a limit point, can be indefinite, and the step is to be cut.
+// The error carries what the solve's iterations showed, like any other
+// failed solve. The failing pivot is named for the log only: under a
+// fill-reducing ordering it is where the elimination noticed the lost
+// stiffness, which need not be where the joint gives way.
 func (s *Solver) unstable(err error) error {
 	if !s.m.HasHistory() {
 		if _, small := s.m.kin.(SmallStrain); small {
 			return err
 		}
 	}
-	return &NotConvergedError{Iterations: s.Timing.Iterations, Residual: s.lastRes, Reason: "the tangent is not positive definite: " + err.Error()}
+	e := s.watch.failure(s.m, max(s.watch.its-1, 0), s.lastRes, "the tangent is not positive definite")
+	e.Indefinite = true
+	var ue *UnsupportedError
+	if errors.As(err, &ue) {
+		e.Pivot = s.m.describePlace(ue.Dof)
+		e.Reason += " (the factorization met a pivot ≤ 0 at " + e.Pivot + ")"
+	} else {
+		e.Reason += ": " + err.Error()
+	}
+	return e
 }
 
 // patience lets the solves until the returned function is called take

@@ -1,7 +1,9 @@
 package fem
 
 import (
+	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"flangeseg/material"
@@ -167,5 +169,148 @@ func TestRampFirstIncrementPredicted(t *testing.T) {
 	})
 	if err != nil {
 		t.Fatal(err)
+	}
+}
+
+// The first increment of a ramp that follows another extrapolates the
+// last increment scaled by the change of the prescribed value, not by the
+// fractions of the two ramps' spans (a release of the shell end is a row
+// of short ramps): on a linear model the extrapolation is then the
+// solution, and no Newton step is left to take.
+func TestRampExtrapolatesAcrossRamps(t *testing.T) {
+	m, edge := barModel(t, stackedBar(t))
+	s, err := NewSolver(m, nil, NewtonOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	none := func(Increment) (bool, error) { return false, nil }
+	if err := s.Ramp(edge.Axial, 0.1, RampOptions{Increments: 10}, none); err != nil {
+		t.Fatal(err)
+	}
+	err = s.Ramp(edge.Axial, 0.13, RampOptions{Increments: 1}, func(inc Increment) (bool, error) {
+		if inc.Iterations != 0 {
+			t.Errorf("first increment of the second ramp: %d Newton steps after the extrapolation, want 0", inc.Iterations)
+		}
+		return false, nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+}
+
+// TestRampBudget: an increment that needs more Newton iterations than its
+// budget is halved rather than iterated on; once halved BudgetCuts times
+// it gets the solver's full limit, so the ramp still reaches its end. A
+// Hencky bar stretched by half its length in one step needs more than two
+// iterations, and elasticity makes the end force independent of the path.
+func TestRampBudget(t *testing.T) {
+	run := func(opt RampOptions) (float64, []Increment) {
+		msh, err := mesh.Rect(0, 0, 10, 20, 2, 3, mesh.Region{Name: "bar", Thickness: 2, Material: "steel"}, mesh.Quad8)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, err := NewModel(msh, map[string]material.Law{"steel": material.Elastic{E: 1000, Nu: 0.3}},
+			Options{Condition: material.PlaneStress, Kinematics: FiniteStrain{}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := m.FixSet("bottom", Z, 0); err != nil {
+			t.Fatal(err)
+		}
+		if err := m.FixSet("left", X, 0); err != nil {
+			t.Fatal(err)
+		}
+		edge, err := m.AddRigidEdge("top", mesh.Point{X: 0, Z: 20}, RigidEdgeOptions{FixRotation: true, LateralFree: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := m.Fix(edge.Axial, 0); err != nil {
+			t.Fatal(err)
+		}
+		s, err := NewSolver(m, nil, NewtonOptions{Tolerance: 1e-11})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var incs []Increment
+		err = s.Ramp(edge.Axial, 10, opt, func(inc Increment) (bool, error) {
+			incs = append(incs, inc)
+			return false, nil
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := s.Reaction(edge.Axial)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return f, incs
+	}
+	free, whole := run(RampOptions{Increments: 1})
+	if len(whole) != 1 || whole[0].Iterations <= 2 {
+		t.Fatalf("without a budget: %+v; the case needs one increment of more than 2 iterations", whole)
+	}
+	const budget, budgetCuts = 2, 2
+	held, incs := run(RampOptions{Increments: 1, Budget: budget, BudgetCuts: budgetCuts})
+	if len(incs) < 2 {
+		t.Errorf("with a budget of %d iterations the step was not halved: %+v", budget, incs)
+	}
+	for _, inc := range incs {
+		if inc.Cuts < budgetCuts && inc.Iterations > budget {
+			t.Errorf("increment %d: %d iterations after %d halvings, budget %d", inc.Index, inc.Iterations, inc.Cuts, budget)
+		}
+	}
+	if math.Abs(held-free) > 1e-6*math.Abs(free) {
+		t.Errorf("end force %.9g with the budget, %.9g without: an elastic bar's force does not depend on the path", held, free)
+	}
+}
+
+// A tangent that is not positive definite in a model with a
+// path-dependent law is a failed solve, not a setup error: the ramp halves
+// its step, then stops with a RampError around a NotConvergedError that
+// says the tangent lost positive definiteness, names the failing pivot's
+// place with its region, and carries the residual of the solve's own
+// iterations (not the run's iteration count).
+func TestIndefiniteTangentIsNotConverged(t *testing.T) {
+	msh := stackedBar(t)
+	laws := map[string]material.Law{"steel": recorder{material.Elastic{E: 210000, Nu: 0.3}}}
+	m, err := NewModel(msh, laws, Options{Condition: material.PlaneStress})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Held in z only: nothing holds the bar in x.
+	if err := m.FixSet("bottom", Z, 0); err != nil {
+		t.Fatal(err)
+	}
+	edge, err := m.AddRigidEdge("top", mesh.Point{X: 5, Z: 100}, RigidEdgeOptions{FixRotation: true, LateralFree: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := m.Fix(edge.Axial, 0); err != nil {
+		t.Fatal(err)
+	}
+	s, err := NewSolver(m, nil, NewtonOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	err = s.Ramp(edge.Axial, 0.1, RampOptions{Increments: 2, MaxCuts: 2}, func(Increment) (bool, error) { return false, nil })
+	var re *RampError
+	if !errors.As(err, &re) {
+		t.Fatalf("got %v, want a RampError", err)
+	}
+	if re.Cuts != 2 || re.Reached != 0 || math.Abs(re.Step-0.1/8) > 1e-15 {
+		t.Errorf("ramp error %+v: want 2 halvings from 0 with a last step of 0.0125 mm", re)
+	}
+	var nc *NotConvergedError
+	if !errors.As(err, &nc) {
+		t.Fatalf("got %v, want a NotConvergedError inside", err)
+	}
+	if !nc.Indefinite || !strings.Contains(nc.Reason, "not positive definite") {
+		t.Errorf("reason %q (indefinite %v): want the tangent named", nc.Reason, nc.Indefinite)
+	}
+	if !strings.Contains(nc.Pivot, "node ") || !strings.HasSuffix(nc.Pivot, " in bar") && !strings.HasSuffix(nc.Pivot, " in slice") {
+		t.Errorf("pivot %q: want a node with its region", nc.Pivot)
+	}
+	if nc.Iterations != 0 || !(nc.First > 0) || nc.Best != nc.First {
+		t.Errorf("iterations %d, first %g, best %g: want the solve's own first residual and no step taken", nc.Iterations, nc.First, nc.Best)
 	}
 }

@@ -14,7 +14,7 @@ import (
 // and starts from the tangent's response instead (tangentPredict).
 func (s *Solver) predict(step float64) error {
 	s.pendingStep = step
-	if s.lastStep <= 0 || s.before == nil {
+	if s.lastStep == 0 || s.before == nil {
 		return s.tangentPredict()
 	}
 	was := s.penetration()

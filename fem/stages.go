@@ -14,6 +14,32 @@ type Increment struct {
 	Cuts       int     // step halvings needed on the way to it
 }
 
+// RampError reports a ramp that found no equilibrium even for its
+// smallest step: Reached is the last converged value, Step the last
+// change of the prescribed value tried from it, after Cuts halvings in a
+// row; Stalled says the step had fallen below minRampStep of the nominal
+// increment. Err is the last try's failure.
+type RampError struct {
+	Reached, Target, Step float64
+	Cuts                  int
+	Stalled               bool
+	Err                   error
+}
+
+// minRampStep is the smallest step a ramp tries, as a fraction of its
+// nominal increment: a ramp that has come down to a millionth of it is
+// not advancing.
+const minRampStep = 1e-6
+
+func (e *RampError) Error() string {
+	if e.Stalled {
+		return fmt.Sprintf("fem: ramp stopped at %.4g of %.4g: its step fell below %g of an increment: %v", e.Reached, e.Target, minRampStep, e.Err)
+	}
+	return fmt.Sprintf("fem: ramp stopped at %.4g of %.4g after %d step halvings: %v", e.Reached, e.Target, e.Cuts, e.Err)
+}
+
+func (e *RampError) Unwrap() error { return e.Err }
+
 // RampOptions control a displacement-controlled ramp.
 type RampOptions struct {
 	Increments int // equal steps to the target (≥ 1)
@@ -24,6 +50,15 @@ type RampOptions struct {
 	// short of it can would otherwise halve its way towards it without
 	// end.
 	MinStep float64
+	// Budget is the Newton iterations an increment may take, multiplier
+	// updates included, before its step is halved, while it has been
+	// halved fewer than BudgetCuts times (0: no budget; the solver's
+	// MaxIterations per update). A contact solve that has not converged
+	// in some fifteen iterations is as a rule cycling between contact
+	// states, and half the step costs less than the cycling; an increment
+	// that two halvings did not help gets the solver's full iterations
+	// before it is halved again, so the budget never ends a run.
+	Budget, BudgetCuts int
 }
 
 // Ramp moves the prescribed dof d from its current value to target in
@@ -31,8 +66,8 @@ type RampOptions struct {
 // MaxCuts times in a row) and growing it back after success. After every
 // converged increment the state is committed and done is called; done may
 // stop the ramp by returning true. A ramp that cannot go on returns a
-// *NotConvergedError and leaves the solver at the last converged
-// increment.
+// *RampError wrapping the last *NotConvergedError and leaves the solver
+// at the last converged increment.
 func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Increment) (stop bool, err error)) error {
 	if opt.Increments < 1 {
 		return fmt.Errorf("fem: ramp with %d increments: need at least 1", opt.Increments)
@@ -49,11 +84,18 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 		if err := s.m.SetValue(d, start+next*span); err != nil {
 			return err
 		}
-		if err := s.predict(next - at); err != nil {
+		// In units of the prescribed value, not of this ramp's span: the
+		// increment extrapolated may be the last of another ramp.
+		if err := s.predict((next - at) * span); err != nil {
 			return err
 		}
 		s.log(fmt.Sprintf("increment %d: %.6g → %.6g", count+1, start+at*span, start+next*span))
+		s.budget = 0
+		if cuts < opt.BudgetCuts {
+			s.budget = opt.Budget
+		}
 		its, err := s.Equilibrium()
+		s.budget = 0
 		if err != nil {
 			s.log(fmt.Sprintf("  not converged (%v); step halved", err))
 			s.Revert()
@@ -63,8 +105,14 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 			if !IsNotConverged(err) {
 				return err
 			}
-			if cuts == opt.MaxCuts || step/2 < opt.MinStep {
-				return fmt.Errorf("fem: ramp stopped at %.4g of %.4g after %d step halvings: %w", start+at*span, target, cuts, err)
+			// The halvings in a row are bounded, and so is the step: after
+			// a success at the cut size the count starts afresh, so a
+			// state the solver cannot leave (a path that turns back,
+			// approached ever more closely) would otherwise be met with
+			// ever smaller increments that all converge, without end.
+			stalled := step/2 < minRampStep/float64(opt.Increments)
+			if cuts == opt.MaxCuts || stalled || step/2 < opt.MinStep {
+				return &RampError{Reached: start + at*span, Target: target, Step: (next - at) * span, Cuts: cuts, Stalled: stalled, Err: err}
 			}
 			cuts++
 			step /= 2

@@ -11,14 +11,21 @@ import (
 // diagnose puts a failed stage into the user's words: what happened,
 // where, what the out-of-balance force did, and what to try. at describes
 // the state the stage was leaving ("the preload", "increment 12 (u =
-// 3.2 mm, Z = 410 kN)").
-func (g *segment) diagnose(stage, at string, err error) string {
+// 3.2 mm, Z = 410 kN)"); path is what the tension stage had done (nil for
+// the preload).
+func (g *segment) diagnose(stage, at string, err error, path *tensionPath) string {
 	var nc *fem.NotConvergedError
 	if !errors.As(err, &nc) {
 		return fmt.Sprintf("The %s stage stopped after %s: %v.", stage, at, err)
 	}
 	var b strings.Builder
 	fmt.Fprintf(&b, "The %s stage found no equilibrium for the step after %s. ", stage, at)
+	if path.givesWay(nc, err) {
+		b.WriteString(g.givingWay(path, nc, err))
+		b.WriteString(" What to try: ")
+		b.WriteString(g.limitAdvice(path))
+		return b.String()
+	}
 	fmt.Fprintf(&b, "In %d Newton iterations the relative out-of-balance force went from %.2g to %.2g at best and ended at %.2g (equilibrium means below 1e-7).",
 		nc.Iterations, nc.First, nc.Best, nc.Residual)
 	if nc.Where != "" {

@@ -94,3 +94,36 @@ func (g *segment) flangeSite(x float64) string {
 	}
 	return figures.SiteFlangeJoint
 }
+
+// yielding is the integration point whose equivalent plastic strain grew
+// most in an increment: where the joint gives way when it loses its
+// stiffness. The place of the largest strain would not do: the corners of
+// the strip (the prying pivot, the washer edges) hold the largest strains
+// from early on while a neck or hinge forms elsewhere.
+type yielding struct {
+	region   string  // mesh region of the point
+	x, z     float64 // its reference position, mm
+	strain   float64 // equivalent plastic strain at the end of the increment
+	increase float64 // its growth in the increment
+}
+
+// fastestYielding compares the plastic strains of two states (before may
+// be empty: everything grew from zero) and returns the point that grew
+// most; ok is false where nothing grew.
+func (g *segment) fastestYielding(before, now pointScalars, pts [][]fem.PointResult) (y yielding, ok bool) {
+	for e, pe := range now.plastic {
+		for ip, ep := range pe {
+			grew := ep
+			if e < len(before.plastic) && ip < len(before.plastic[e]) {
+				grew -= before.plastic[e][ip]
+			}
+			if grew <= y.increase {
+				continue
+			}
+			p := pts[e][ip]
+			y = yielding{region: g.mesh.Regions[g.mesh.Elements[e].Region].Name, x: p.X, z: p.Z, strain: ep, increase: grew}
+			ok = true
+		}
+	}
+	return y, ok
+}

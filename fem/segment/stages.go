@@ -36,6 +36,12 @@ type analysis struct {
 	// tightening are the states with the shell end free on the way to
 	// the preload of a model whose faces start apart, in order.
 	tightening []tighteningState
+	// plastic holds the plastic strains of the last recorded state;
+	// giving is the point whose strain grew most in reaching it (found:
+	// one grew), for the diagnosis of a joint that gives way.
+	plastic pointScalars
+	giving  yielding
+	found   bool
 
 	timing   fem.Timing
 	equation int
@@ -75,7 +81,7 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		if fem.IsNotConverged(err) {
 			res.failure = fmt.Errorf("preload: %w", err)
 			res.ending = "the preload stage did not converge"
-			res.diagnosis = g.diagnose("preload", "the unloaded state", err)
+			res.diagnosis = g.diagnose("preload", "the unloaded state", err, nil)
 			res.timing = s.Timing
 			return res, nil
 		}
@@ -99,7 +105,7 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 	ld := g.spec.Load
 	peak := 0.0
 	res.ending = "maximum displacement reached"
-	err = s.Ramp(g.edge.Axial, v0+ld.MaxDisplacement, fem.RampOptions{Increments: ld.Increments}, func(inc fem.Increment) (bool, error) {
+	err = s.Ramp(g.edge.Axial, v0+ld.MaxDisplacement, fem.RampOptions{Increments: ld.Increments, Budget: incrementBudget, BudgetCuts: budgetCuts}, func(inc fem.Increment) (bool, error) {
 		row, err := g.record(s, inc.Index, "tension", v0, inc.Iterations)
 		if err != nil {
 			return true, err
@@ -135,10 +141,22 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		}
 		res.failure = err
 		res.ending = "the tension stage did not converge"
-		res.diagnosis = g.diagnose("tension", lastState(res.rows), err)
+		res.diagnosis = g.diagnose("tension", lastState(res.rows), err, &tensionPath{rows: res.rows, giving: res.giving, found: res.found})
 	}
 	return res, nil
 }
+
+// The tension stage's increments have incrementBudget Newton iterations
+// (fem.RampOptions.Budget) while halved fewer than budgetCuts times. Over
+// the robustness family (testdata/robust), the solves that took longer
+// were cycling between contact states — whole washers between sticking
+// and sliding, the face slipping and sticking as the flange begins to
+// turn — until the frozen-point corrections caught them, and a half step
+// needed fewer iterations than the rest of the cycling.
+const (
+	incrementBudget = 15
+	budgetCuts      = 2
+)
 
 // preload brings the bolt to its target with the loaded edge free of
 // force: the slice is shortened in load steps (fem.Preload) with the edge
@@ -266,10 +284,15 @@ func (g *segment) tighteningWashers(on bool) {
 // it converge, and the ramp would halve its way towards it without end.
 func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 	last := 0.0 // the edge position of the step before
-	opt := fem.RampOptions{Increments: 1}
+	minStep := 0.0
 	if g.facesStartApart() {
-		opt.MinStep = 1.0 / 64
+		minStep = 1.0 / 64
 	}
+	// reach: how far one ramp increment may move the edge — twice the
+	// largest move that has converged without halving. A secant step far
+	// beyond what the joint took last time would only be halved down to
+	// it, each failed attempt costing a full solve.
+	reach := math.Inf(1)
 	at := func(x float64) (float64, float64, error) {
 		// A secant step that turns back starts from the tangent's
 		// response: extrapolating the step before would push the wrong way.
@@ -278,10 +301,24 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 			s.RestartRamp()
 		}
 		last = from
-		err := s.Ramp(g.edge.Axial, x, opt, func(fem.Increment) (bool, error) { return false, nil })
+		n := 1
+		if move := math.Abs(x - from); move > reach {
+			n = int(math.Ceil(move / reach))
+		}
+		done, good := from, 0.0
+		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: n, MinStep: minStep}, func(inc fem.Increment) (bool, error) {
+			if inc.Cuts == 0 {
+				good = math.Max(good, math.Abs(inc.Value-done))
+			}
+			done = inc.Value
+			return false, nil
+		})
 		reached := s.Model().Value(g.edge.Axial)
-		if err != nil && (opt.MinStep == 0 || !fem.IsNotConverged(err) || reached == from) {
+		if err != nil && (minStep == 0 || !fem.IsNotConverged(err) || reached == from) {
 			return 0, 0, err
+		}
+		if good > 0 {
+			reach = 2 * good
 		}
 		z, err := s.Reaction(g.edge.Axial)
 		return reached, z, err
@@ -404,6 +441,8 @@ func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *figur
 		ps = g.readPlastic(sol.Points)
 		row.MaxPlastic, row.MaxDamage, row.SitePlastic = ps.maxPlastic, ps.maxDmg, ps.site
 		row.BoltDamage, row.BoltDamageWhere = ps.boltDamage, ps.boltDamageWhere
+		res.giving, res.found = g.fastestYielding(res.plastic, ps.points, sol.Points)
+		res.plastic = ps.points
 	}
 	if keep {
 		return g.keepState(s, res, label, *row, sol, ps.points)
