@@ -1,23 +1,43 @@
 package segment
 
 import (
+	"fmt"
 	"math"
+	"strings"
+	"time"
 
 	"flangeseg/fem"
 )
 
 // preloadLevels is the number of equal levels of the bolt shortening in
-// which the bolt of a joint whose faces start apart is tightened.
+// which the closing search tightens the bolt up to the preload.
 const preloadLevels = 10
 
-// tighteningState is a state on the way to the preload, with the shell
-// end free of force: the bolt force and the largest gap left inside the
-// zones of the face that are meant to touch.
+// tighteningState is a state of the closing search, with the shell end
+// free of force: the bolt force and the largest gap left inside the zones
+// of the face that are meant to touch.
 type tighteningState struct {
 	force float64 // N
 	gap   float64 // mm
 	// shortening is the bolt shortening locked in the slice, mm.
 	shortening float64
+}
+
+// closingSearch is what the search for the bolt force the closing of an
+// initial gap took found (findClosing).
+type closingSearch struct {
+	ran bool
+	// states are the levels from the unloaded state on, the last one the
+	// first whose gap is closed, if found.
+	states []tighteningState
+	// failed says why no closed level was found (nil: found, or not run).
+	failed error
+	cost   searchCost
+}
+
+// searchCost is what the closing search cost, apart from the analysis.
+type searchCost struct {
+	levels, iterations, halvings int
 }
 
 // facesStartApart reports whether the flange faces start apart where
@@ -27,57 +47,105 @@ func (g *segment) facesStartApart() bool {
 	return c.Taper != 0 || c.ParallelGap > 0
 }
 
-// tightenInLevels is the first round of a preload for a joint whose faces
-// start apart. On site the nut is turned with the shell end free, and the
-// force the closing takes is the force of bending the flanges (and, in a
-// ring, the neighbouring segments) until the faces meet. A strip tightened
-// with the shell end held reaches the same bolt force only by stretching
-// the shell stubs as the faces approach, so that path tells nothing about
-// the closing. Here the slice is shortened in levels of a tenth of the
-// nut-turn shortening, or of the estimate of the shortening that gives
-// the target force, each with the edge held and then released to zero
-// reaction (release), so each level ends in an equilibrium with the shell
-// end free; a level that is predicted to close the gap is cut so as to
-// end just as it closes, which keeps the force read at closing from being
-// that of a whole level. A preload by force stops the levels a level
-// short of the target and leaves the rest to the correcting rounds
-// (settlePreload), with the washers still glued. It returns the edge
-// position.
-func (g *segment) tightenInLevels(s *fem.Solver, res *analysis) (float64, error) {
+// findClosing looks for the bolt force at which the faces of a joint that
+// start apart came together. On site the nut is turned with the shell end
+// free, and the force the closing takes is the force of bending the
+// flanges (and, in a ring, the neighbouring segments) until the faces
+// meet. The analysis's preload reaches its state with the shell end held
+// while the bolt is shortened, which stretches the shell stubs as the
+// faces approach, so its path tells nothing about the closing. The search
+// therefore runs on a model of its own, built afresh from the same spec,
+// and leaves the analysis as it is: the bolt is tightened in levels of a
+// tenth of the preload's shortening, each released to a free shell end,
+// and stops at the first level whose gap is closed. A failure of the
+// search is reported in closingSearch.failed, never as a failure of the
+// run; only stop's verdict (a cancelled run) is returned.
+func (g *segment) findClosing(preload float64, stop func() error, log func(string)) (closingSearch, error) {
+	out := closingSearch{ran: true}
+	started := time.Now()
+	p, err := buildSegment(g.spec, g.der)
+	if err != nil {
+		out.failed = fmt.Errorf("building its model: %w", err)
+		return out, nil
+	}
+	// The washers are held sticking while the bolt is tightened, as in
+	// Run's second try: at the small bolt forces of the first levels whole
+	// washers otherwise flip between sticking and sliding through every
+	// release (dozens of step halvings a level on the coarse demo joint),
+	// while the force that bends the flanges shut hardly depends on them.
+	p.stickWashers, p.searchingClosing = true, true
+	note := func(line string) {
+		if strings.Contains(line, "step halved") {
+			out.cost.halvings++
+		}
+		if log != nil {
+			log("closing search: " + line)
+		}
+	}
+	s, err := fem.NewSolver(p.model, p.pairs(), fem.NewtonOptions{Log: note, ForceScale: p.der.DesignPreload, Tolerance: 1e-7})
+	if err != nil {
+		out.failed = fmt.Errorf("setting up its solver: %w", err)
+		return out, nil
+	}
+	out.states, out.failed, err = p.tightenUntilClosed(s, preload, stop)
+	out.cost.levels = len(out.states) - 1
+	out.cost.iterations = s.Timing.Iterations
+	if log != nil {
+		log(fmt.Sprintf("closing search: %d levels, %d Newton iterations, %d step halvings, %.1f s",
+			out.cost.levels, out.cost.iterations, out.cost.halvings, time.Since(started).Seconds()))
+	}
+	return out, err
+}
+
+// tightenUntilClosed shortens the bolt in levels, each with the edge held
+// and then released to zero reaction (release), so each level ends in an
+// equilibrium with the shell end free, until the largest gap inside the
+// zones is closed. A level that the last one's closing rate says would
+// close the gap is cut to end as it closes (levelStep). The washers stay
+// held sticking (see findClosing). The search gives up once the bolt
+// force has passed the analysis's preload by a level with the gap still
+// open: the analysis, whose shell end is held while the bolt is
+// shortened, can leave the faces closed at a bolt force at which a free
+// tightening leaves them a few µm apart, so the search looks a level
+// further (closingForce gives such a force as the preload). It returns
+// the states noted, why it found no closed level (failed), and stop's
+// verdict.
+func (g *segment) tightenUntilClosed(s *fem.Solver, preload float64, stop func() error) (states []tighteningState, failed, err error) {
 	total := g.der.PreloadShortening
-	byForce := g.der.PreloadForce > 0
-	if byForce {
+	if g.der.PreloadForce > 0 {
 		total = -g.preloadEstimate(g.der.PreloadForce) * g.slice
 	}
 	step := total / preloadLevels
+	g.tighteningWashers(true)
 	gap, _ := g.largestGap(s.Current())
-	res.tightening = append(res.tightening, tighteningState{gap: gap})
+	states = []tighteningState{{gap: gap}}
 	v, done := 0.0, 0.0
 	for level := 1; level <= 3*preloadLevels; level++ {
-		next := done + g.levelStep(res.tightening, step)
-		if !byForce {
-			next = math.Min(next, total)
+		if stop != nil {
+			if err := stop(); err != nil {
+				return states, nil, err
+			}
 		}
-		pr, err := s.Shorten("bolt_preload", next, g.slice, 1, g.boltForce(s))
-		pr.Iterations += res.preload.Iterations
-		res.preload = pr
+		done += g.levelStep(states, step)
+		if _, err := s.Shorten("bolt_preload", done, g.slice, 1, g.boltForce(s)); err != nil {
+			return states, fmt.Errorf("level %d, shortening the bolt by %.4g mm with the shell end held: %w", level, done, err), nil
+		}
+		if v, err = g.release(s, v); err != nil {
+			return states, fmt.Errorf("level %d, freeing the shell end: %w", level, err), nil
+		}
+		st, err := g.noteLevel(s)
 		if err != nil {
-			return 0, err
+			return states, fmt.Errorf("level %d: %w", level, err), nil
 		}
-		if v, err = g.releaseAndNote(s, res, v); err != nil {
-			return 0, err
+		states = append(states, st)
+		if st.gap <= closedGap {
+			return states, nil, nil
 		}
-		done = next
-		if !byForce && done >= total {
-			break
-		}
-		if byForce && g.nearTarget(res.tightening, step) {
-			// The washers are let go at the target force, as on the
-			// path of a joint whose faces start closed.
-			return g.settlePreload(s, res, v)
+		if st.force >= (1+1.0/preloadLevels)*preload {
+			return states, fmt.Errorf("the faces were still %.3g mm apart at a bolt force of %.1f kN, a level past the preload reached, %.1f kN", st.gap, st.force/1e3, preload/1e3), nil
 		}
 	}
-	return v, nil
+	return states, fmt.Errorf("the faces were still apart after %d levels", 3*preloadLevels), nil
 }
 
 // levelStep is the shortening of the next level: a whole level, or, where
@@ -102,35 +170,22 @@ func (g *segment) levelStep(states []tighteningState, step float64) float64 {
 	return math.Max(math.Min(step, toClose), step/4)
 }
 
-// nearTarget reports whether the next level would bring a preload by
-// force past its target, by the bolt force's rise over the last level.
-func (g *segment) nearTarget(states []tighteningState, step float64) bool {
-	n := len(states)
-	if n == 0 {
-		return false
-	}
-	last := states[n-1]
-	rise := 0.0
-	if n >= 2 {
-		before := states[n-2]
-		rise = (last.force - before.force) / (last.shortening - before.shortening) * step
-	}
-	return last.force+rise >= g.der.PreloadForce
-}
-
-// releaseAndNote releases the loaded edge (release) and, for a joint whose
-// faces start apart, notes the state it reaches.
-func (g *segment) releaseAndNote(s *fem.Solver, res *analysis, v float64) (float64, error) {
-	v, err := g.release(s, v)
-	if err != nil || !g.facesStartApart() {
-		return v, err
-	}
+// noteLevel reads the bolt force, the largest gap inside the zones and
+// the bolt shortening of the current state.
+func (g *segment) noteLevel(s *fem.Solver) (tighteningState, error) {
 	f, err := g.boltForce(s)()
 	if err != nil {
-		return 0, err
+		return tighteningState{}, fmt.Errorf("the bolt force: %w", err)
 	}
 	gap, _ := g.largestGap(s.Current())
-	res.tightening = append(res.tightening, tighteningState{force: f, gap: gap,
-		shortening: -s.Model().Eigenstrain("bolt_preload")[1] * g.slice})
-	return v, nil
+	return tighteningState{force: f, gap: gap,
+		shortening: -s.Model().Eigenstrain("bolt_preload")[1] * g.slice}, nil
+}
+
+// boltForce measures the bolt force at the contact plane.
+func (g *segment) boltForce(s *fem.Solver) func() (float64, error) {
+	return func() (float64, error) {
+		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
+		return f, err
+	}
 }

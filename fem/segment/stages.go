@@ -33,9 +33,10 @@ type analysis struct {
 	// retried: made a second time with the washers held sticking while
 	// the bolt was tightened.
 	retried bool
-	// tightening are the states with the shell end free on the way to
-	// the preload of a model whose faces start apart, in order.
-	tightening []tighteningState
+	// closing is what the separate tightening with the shell end free
+	// found of the bolt force the closing of an initial gap took
+	// (findClosing); it plays no part in the analysis.
+	closing closingSearch
 	// plastic holds the plastic strains of the last recorded state;
 	// giving is the point whose strain grew most in reaching it (found:
 	// one grew), for the diagnosis of a joint that gives way.
@@ -164,11 +165,6 @@ const (
 // are repeated until the bolt force holds its target within 0.5 %. It
 // returns the edge position.
 //
-// Where the faces start apart (contact.taper, contact.parallel_gap) the
-// held edge would make the shell stubs stretch while the gap closes, so
-// the bolt is first brought up in levels of the shortening, each released
-// (tightenInLevels); the force the closing took is read off those states.
-//
 // While the bolt is tightened the washers are held pressed
 // (contact.Pair.Glue), so a Newton iterate cannot lift the bolt off both
 // and leave it floating; after the first round they follow their own law.
@@ -178,88 +174,55 @@ const (
 // of the first steps, at the price of a locked-in friction state that
 // differs a little from a tightening with sliding washers.
 func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
+	force := func() (float64, error) {
+		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
+		return f, err
+	}
 	g.tighteningWashers(true)
-	tighten := g.tighten
-	if g.facesStartApart() {
-		tighten = g.tightenInLevels
-	}
-	v, err := tighten(s, res)
-	if err != nil {
-		return 0, err
-	}
-	// The bolt is tight: from here on the washers follow their own law,
-	// and the next rounds correct the preload for it.
-	g.tighteningWashers(false)
-	if _, err := s.Equilibrium(); err != nil {
-		s.Revert()
-		return 0, fmt.Errorf("preload: the washers, let go after tightening: %w", err)
-	}
-	s.Commit()
-	if v, err = g.releaseAndNote(s, res, v); err != nil {
-		return 0, err
-	}
-	return g.settlePreload(s, res, v)
-}
-
-// tighten is the first round of a preload: the slice is shortened to the
-// target force (or by the nut turn) with the edge held, then released.
-func (g *segment) tighten(s *fem.Solver, res *analysis) (float64, error) {
-	if err := g.shortenHeld(s, res); err != nil {
-		return 0, err
-	}
-	return g.release(s, 0)
-}
-
-// shortenHeld brings the bolt to its target force (or its nut-turn
-// shortening) with the loaded edge held where it is, and adds the solves
-// to those of the preload.
-func (g *segment) shortenHeld(s *fem.Solver, res *analysis) error {
 	target := g.der.PreloadForce
-	var pr fem.PreloadResult
-	var err error
-	if target > 0 {
-		pr, err = s.Preload("bolt_preload", target, g.boltForce(s), fem.PreloadOptions{Estimate: g.preloadEstimate(target)})
-	} else {
-		pr, err = s.Shorten("bolt_preload", g.der.PreloadShortening, g.slice, 4, g.boltForce(s))
-	}
-	pr.Iterations += res.preload.Iterations
-	res.preload = pr
-	return err
-}
-
-// settlePreload corrects the bolt force, in rounds of shortening with the
-// edge held and release, until it holds its target within 0.5 % with the
-// shell end free (a nut turn keeps its shortening). It returns the edge
-// position.
-func (g *segment) settlePreload(s *fem.Solver, res *analysis, v float64) (float64, error) {
-	target := g.der.PreloadForce
-	for round := 0; ; round++ {
-		f, err := g.boltForce(s)()
+	v := 0.0
+	for round := 0; round < 8; round++ {
+		var pr fem.PreloadResult
+		var err error
+		if target > 0 {
+			pr, err = s.Preload("bolt_preload", target, force, fem.PreloadOptions{Estimate: g.preloadEstimate(target)})
+		} else {
+			pr, err = s.Shorten("bolt_preload", g.der.PreloadShortening, g.slice, 4, force)
+		}
+		pr.Iterations += res.preload.Iterations
+		res.preload = pr
+		if err != nil {
+			return 0, err
+		}
+		if v, err = g.release(s, v); err != nil {
+			return 0, err
+		}
+		if round == 0 {
+			// The bolt is tight: from here on the washers follow their own
+			// law, and the next rounds correct the preload for it.
+			g.tighteningWashers(false)
+			if _, err := s.Equilibrium(); err != nil {
+				s.Revert()
+				return 0, fmt.Errorf("preload: the washers, let go after tightening: %w", err)
+			}
+			s.Commit()
+			if v, err = g.release(s, v); err != nil {
+				return 0, err
+			}
+		}
+		f, err := force()
 		if err != nil {
 			return 0, err
 		}
 		res.preload.Force = f
 		if target == 0 || math.Abs(f-target) <= 0.005*target {
-			return v, nil
+			break
 		}
 		if round == 7 {
 			return 0, fmt.Errorf("preload: the bolt force did not settle at %.1f kN with the shell end free", target/1e3)
 		}
-		if err := g.shortenHeld(s, res); err != nil {
-			return 0, err
-		}
-		if v, err = g.releaseAndNote(s, res, v); err != nil {
-			return 0, err
-		}
 	}
-}
-
-// boltForce measures the bolt force at the contact plane.
-func (g *segment) boltForce(s *fem.Solver) func() (float64, error) {
-	return func() (float64, error) {
-		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
-		return f, err
-	}
+	return v, nil
 }
 
 // tighteningWashers glues the washers while on (see preload) and gives
@@ -277,15 +240,15 @@ func (g *segment) tighteningWashers(on bool) {
 // rather than in one jump; once two positions with reactions of opposite
 // sign are known, a secant step that leaves them is replaced by their
 // midpoint (the safeguard of Dekker's method).
-//
-// Where the faces start apart, a position that the ramp cannot reach is
-// replaced by the nearest one it reached: there, a point of the face can
-// chatter at one position of the edge while the positions just short of
-// it converge, and the ramp would halve its way towards it without end.
 func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 	last := 0.0 // the edge position of the step before
+	// In the closing search a point of the face can chatter at one
+	// position of the edge while the positions just short of it converge:
+	// a ramp that cannot reach its secant position ends at the nearest one
+	// it reached, rather than halving its way towards it without end. The
+	// analysis keeps the plain ramp.
 	minStep := 0.0
-	if g.facesStartApart() {
+	if g.searchingClosing {
 		minStep = 1.0 / 64
 	}
 	// reach: how far one ramp increment may move the edge — twice the
@@ -313,15 +276,18 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 			done = inc.Value
 			return false, nil
 		})
-		reached := s.Model().Value(g.edge.Axial)
-		if err != nil && (minStep == 0 || !fem.IsNotConverged(err) || reached == from) {
-			return 0, 0, err
+		if err != nil {
+			reached := s.Model().Value(g.edge.Axial)
+			if minStep == 0 || !fem.IsNotConverged(err) || reached == from {
+				return 0, 0, err
+			}
+			x = reached
 		}
 		if good > 0 {
 			reach = 2 * good
 		}
 		z, err := s.Reaction(g.edge.Axial)
-		return reached, z, err
+		return x, z, err
 	}
 	defer s.RestartRamp()
 	z0, err := s.Reaction(g.edge.Axial)
