@@ -2,6 +2,7 @@ package segment
 
 import (
 	"context"
+	"errors"
 	"math"
 	"path/filepath"
 	"strings"
@@ -236,5 +237,39 @@ func TestClosingSearchLeavesHistory(t *testing.T) {
 	}
 	if flat.Figures.Closure != nil {
 		t.Errorf("a flat face has a closure block: %+v", flat.Figures.Closure)
+	}
+}
+
+// TestClosingForceReading checks how the search's levels are read,
+// without a model: linearly in the gap between the last open level and
+// the first closed one; capped at the preload where the search closed the
+// faces only past it; and not found, with the search's reason, where it
+// failed or ended open.
+func TestClosingForceReading(t *testing.T) {
+	const preload = 500e3
+	levels := func(f0, f1 float64) closingSearch {
+		return closingSearch{ran: true, states: []tighteningState{{gap: 0.5}, {force: f0, gap: 0.201}, {force: f1, gap: 0.0}}}
+	}
+	c := closingForce(levels(100e3, 300e3), preload, 0)
+	if c.missing != nil || math.Abs(c.force-(100e3+200e3*0.2/0.201)) > 1e-6 || c.from != 100e3 || c.to != 300e3 || c.capped {
+		t.Errorf("between levels at 100 and 300 kN, gap 0.201 → 0 mm: %+v, want 1 µm reached at 299.0 kN", c)
+	}
+	if c := closingForce(levels(450e3, 600e3), preload, 0); c.force != preload || !c.capped {
+		t.Errorf("closed only past the preload: %+v, want the preload, capped", c)
+	}
+	why := errors.New("level 3, freeing the shell end: no equilibrium")
+	g := &segment{spec: &modelfile.Spec{}}
+	for _, s := range []closingSearch{{ran: true, failed: why}, {ran: true, states: []tighteningState{{gap: 0.5}, {force: 100e3, gap: 0.2}}}} {
+		c := closingForce(s, preload, 0)
+		if c.missing == nil {
+			t.Errorf("search %+v: a closing force of %.0f N, want none", s, c.force)
+			continue
+		}
+		if w := g.closingWords(c, preload); !strings.Contains(w, "not found") {
+			t.Errorf("search %+v: the words do not say it was not found: %s", s, w)
+		}
+	}
+	if c := closingForce(closingSearch{}, preload, 0.2); !c.open || c.force != preload {
+		t.Errorf("a gap left open: %+v, want the whole preload", c)
 	}
 }
