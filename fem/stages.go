@@ -44,6 +44,12 @@ func (e *RampError) Unwrap() error { return e.Err }
 type RampOptions struct {
 	Increments int // equal steps to the target (≥ 1)
 	MaxCuts    int // halvings of a failing step before giving up (default 6)
+	// MinStep, if positive, is the smallest step, as a fraction of the
+	// nominal increment, that a failing step may be halved to, whatever
+	// the halvings in a row: where a caller can use the positions short of
+	// an end that cannot be reached, this gives up on it long before
+	// minRampStep does.
+	MinStep float64
 	// Budget is the Newton iterations an increment may take, multiplier
 	// updates included, before its step is halved, while it has been
 	// halved fewer than BudgetCuts times (0: no budget; the solver's
@@ -105,7 +111,7 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 			// approached ever more closely) would otherwise be met with
 			// ever smaller increments that all converge, without end.
 			stalled := step/2 < minRampStep/float64(opt.Increments)
-			if cuts == opt.MaxCuts || stalled {
+			if cuts == opt.MaxCuts || stalled || step/2 < opt.MinStep/float64(opt.Increments) {
 				return &RampError{Reached: start + at*span, Target: target, Step: (next - at) * span, Cuts: cuts, Stalled: stalled, Err: err}
 			}
 			cuts++

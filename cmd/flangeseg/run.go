@@ -15,6 +15,7 @@ import (
 	"golang.org/x/term"
 
 	"flangeseg/fem/segment"
+	"flangeseg/fem/segment/figures"
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/fem/sparse"
 	"flangeseg/post/note"
@@ -196,6 +197,7 @@ func printSummary(w io.Writer, s results.Summary, dir string, took time.Duration
 	}
 	if c := j.Closure; c != nil {
 		fmt.Fprintf(w, "  face after preload    %s\n", c.Note)
+		fmt.Fprintf(w, "  closing force         %s\n", closingLine(c))
 	}
 	fmt.Fprintf(w, "  opening load          %s\n", opening)
 	fmt.Fprintf(w, "  decompression load    %s\n", kNOr(j.DecompressionKN))
@@ -213,4 +215,21 @@ func printSummary(w io.Writer, s results.Summary, dir string, took time.Duration
 	fmt.Fprintf(w, "  largest penetration   %.2g mm\n", j.PenetrationMaxMM)
 	fmt.Fprintf(w, "  %d equations, %d increments, %d Newton iterations, %.1f s; results in %s\n",
 		s.Mesh.Equations, s.Solver.Increments, s.Solver.NewtonIterations, took.Seconds(), dir)
+}
+
+// closingLine is the bolt force the closing of an initial gap took, its
+// share of the preload and the levels of the separate tightening that
+// bracket it, or why it was not found.
+func closingLine(c *figures.Closure) string {
+	if c.ClosingForceKN == nil || c.ClosingShare == nil {
+		return "not found (see the note above)"
+	}
+	line := fmt.Sprintf("%.1f kN (%.0f %% of the preload)", *c.ClosingForceKN, 100**c.ClosingShare)
+	if b := c.ClosingBetweenKN; len(b) == 2 {
+		line += fmt.Sprintf(", between the free-end tightening levels at %.1f and %.1f kN", b[0], b[1])
+	}
+	if k := c.ClosingSearch; k != nil {
+		line += fmt.Sprintf("; that tightening: %d levels, %d Newton iterations", k.Levels, k.NewtonIterations)
+	}
+	return line
 }

@@ -36,6 +36,9 @@ type segment struct {
 	// stickWashers: the washers are held sticking, not only pressed,
 	// while the bolt is tightened (see preload).
 	stickWashers bool
+	// searchingClosing: this model only looks for the bolt force the
+	// closing of an initial gap took (findClosing).
+	searchingClosing bool
 }
 
 // nearestOnSet is the node of a node set nearest to x (−1 if none).

@@ -164,6 +164,13 @@ func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 			s.g, g, a = again, again, b
 		}
 	}
+	if gap, _, ok := g.gapAfterPreload(a); ok && gap <= closedGap {
+		// The faces closed: how much of the preload that took is looked
+		// for apart from the analysis, which it leaves as it is.
+		if a.closing, err = g.findClosing(a.preload.Force, aopt.stop, opt.Log); err != nil {
+			return nil, err
+		}
+	}
 	r := &Result{Segment: s, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure, Diagnosis: a.diagnosis,
 		WashersHeldSticking: a.retried,
 		Timing:              a.timing, Equations: a.equation, Figures: jointFigures(g, a)}

@@ -33,6 +33,10 @@ type analysis struct {
 	// retried: made a second time with the washers held sticking while
 	// the bolt was tightened.
 	retried bool
+	// closing is what the separate tightening with the shell end free
+	// found of the bolt force the closing of an initial gap took
+	// (findClosing); it plays no part in the analysis.
+	closing closingSearch
 	// plastic holds the plastic strains of the last recorded state;
 	// giving is the point whose strain grew most in reaching it (found:
 	// one grew), for the diagnosis of a joint that gives way.
@@ -238,12 +242,21 @@ func (g *segment) tighteningWashers(on bool) {
 // midpoint (the safeguard of Dekker's method).
 func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 	last := 0.0 // the edge position of the step before
+	// In the closing search a point of the face can chatter at one
+	// position of the edge while the positions just short of it converge:
+	// a ramp that cannot reach its secant position ends at the nearest one
+	// it reached, rather than halving its way towards it without end. The
+	// analysis keeps the plain ramp.
+	minStep := 0.0
+	if g.searchingClosing {
+		minStep = 1.0 / 64
+	}
 	// reach: how far one ramp increment may move the edge — twice the
 	// largest move that has converged without halving. A secant step far
 	// beyond what the joint took last time would only be halved down to
 	// it, each failed attempt costing a full solve.
 	reach := math.Inf(1)
-	at := func(x float64) (float64, error) {
+	at := func(x float64) (float64, float64, error) {
 		// A secant step that turns back starts from the tangent's
 		// response: extrapolating the step before would push the wrong way.
 		from := s.Model().Value(g.edge.Axial)
@@ -256,7 +269,7 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 			n = int(math.Ceil(move / reach))
 		}
 		done, good := from, 0.0
-		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: n}, func(inc fem.Increment) (bool, error) {
+		err := s.Ramp(g.edge.Axial, x, fem.RampOptions{Increments: n, MinStep: minStep}, func(inc fem.Increment) (bool, error) {
 			if inc.Cuts == 0 {
 				good = math.Max(good, math.Abs(inc.Value-done))
 			}
@@ -264,12 +277,17 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 			return false, nil
 		})
 		if err != nil {
-			return 0, err
+			reached := s.Model().Value(g.edge.Axial)
+			if minStep == 0 || !fem.IsNotConverged(err) || reached == from {
+				return 0, 0, err
+			}
+			x = reached
 		}
 		if good > 0 {
 			reach = 2 * good
 		}
-		return s.Reaction(g.edge.Axial)
+		z, err := s.Reaction(g.edge.Axial)
+		return x, z, err
 	}
 	defer s.RestartRamp()
 	z0, err := s.Reaction(g.edge.Axial)
@@ -287,12 +305,12 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 		}
 	}
 	note(v, z0)
-	v1 := v - 1e-3
+	v1, z1 := v-1e-3, 0.0
 	for it := 0; it < 60; it++ {
 		if math.Abs(z0) <= 1e-7*scale {
 			return v, nil
 		}
-		z1, err := at(v1)
+		v1, z1, err = at(v1)
 		if err != nil {
 			return 0, err
 		}

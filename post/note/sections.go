@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 
+	"flangeseg/fem/segment/figures"
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post/handcalc"
 	"flangeseg/post/report"
@@ -115,6 +116,8 @@ func (n *runNote) preload() report.Quantities {
 		rows = append(rows,
 			report.Quantity{Name: "initial gap between the faces where they are meant to touch, largest", Value: num(c.InitialGapMM, "mm"), Source: "contact.taper, contact.parallel_gap"},
 			report.Quantity{Name: "gap left open after preload, largest", Value: num(c.GapLeftMM, "mm"), Source: srcFE + fmt.Sprintf(", at x = %.1f mm; ", c.GapLeftAtXMM) + c.Note},
+			report.Quantity{Name: "bolt force the closing took", Value: orMissing(c.ClosingForceKN, "kN"), Source: srcFE + closingSource(c)},
+			report.Quantity{Name: "bolt force the closing took / preload reached", Value: orMissing(c.ClosingShare, report.Dimensionless), Source: srcFE},
 		)
 	}
 	return report.Quantities{Caption: "Preload of the bolt", Rows: rows}
@@ -331,4 +334,19 @@ func (n *runNote) notes() []string {
 		out = append(out, "The analysis stopped before its end ("+n.sum.Failure+"); every result comes from the increments that converged.")
 	}
 	return out
+}
+
+// closingSource says how the closing force was found and to what
+// resolution.
+func closingSource(c *figures.Closure) string {
+	switch {
+	case c.GapLeftMM > figures.OpenGap:
+		return "; the gap stays open, so the whole preload went into closing it"
+	case c.ClosingForceKN == nil:
+		return "; not found: a separate tightening with the shell end free did not give it (see the gap's note)"
+	case len(c.ClosingBetweenKN) != 2:
+		return "; nothing to close"
+	}
+	return fmt.Sprintf("; a separate tightening of the joint in levels with the shell end free, stopped once the faces closed (the analysis's preload path is not changed): where the largest gap inside the zones falls to 1 µm, read linearly in the gap between its levels at %.1f and %.1f kN (resolution: one level)",
+		c.ClosingBetweenKN[0], c.ClosingBetweenKN[1])
 }

@@ -221,4 +221,26 @@ type Closure struct {
 	GapLeftMM    float64 `json:"gap_left_after_preload_mm"`
 	GapLeftAtXMM float64 `json:"gap_left_at_x_mm"`
 	Note         string  `json:"note"`
+	// ClosingForceKN is the bolt force at which the largest gap inside
+	// the zones fell to 1 µm, found by a separate tightening of a fresh
+	// model with the shell end free, in levels, stopped at the first level
+	// whose gap is closed, and read linearly in the gap between that level
+	// and the one before, whose bolt forces ClosingBetweenKN gives. Where
+	// the preload leaves the gap open it is the whole preload (no search).
+	// It is null where the search found none (the note says why).
+	// ClosingShare is its share of the preload reached.
+	ClosingForceKN   *float64  `json:"closing_force_kN"`
+	ClosingShare     *float64  `json:"closing_force_share_of_preload"`
+	ClosingBetweenKN []float64 `json:"closing_force_between_levels_kN,omitempty"`
+	// ClosingSearch is what the separate tightening cost, apart from the
+	// analysis (nil where none ran).
+	ClosingSearch *ClosingSearch `json:"closing_search,omitempty"`
+}
+
+// ClosingSearch is the cost of the separate tightening that looked for
+// the closing force.
+type ClosingSearch struct {
+	Levels           int `json:"levels"`
+	NewtonIterations int `json:"newton_iterations"`
+	StepHalvings     int `json:"step_halvings"`
 }

@@ -228,7 +228,7 @@ func (s *Spec) warnings(d Derived) []string {
 	if c := s.Contact; c.Taper != 0 || c.ParallelGap > 0 {
 		face := s.Flange.A + s.Flange.B + s.Shell.Thickness/2
 		open := c.ParallelGap + 2*math.Tan(math.Abs(c.Taper)*math.Pi/180)*face
-		add("contact.taper = %s°, contact.parallel_gap = %s mm: the faces start up to %.3g mm apart; the preload closes the gap by bending the flanges, and a 2D strip has no neighbouring segments to hold it open as a ring does, so the strip closes more of it for the same preload: run reports the gap left open after preload",
+		add("contact.taper = %s°, contact.parallel_gap = %s mm: the faces start up to %.3g mm apart; the preload closes the gap by bending the flanges, and a 2D strip has no neighbouring segments to hold it open as a ring does, so the strip closes more of it for the same preload: run reports the gap left open after preload and the bolt force the closing took, found by a separate tightening with the shell end free",
 			FormatNumber(c.Taper), FormatNumber(c.ParallelGap), open)
 	}
 	if s.Mesh.Size > s.Shell.Thickness/2 {
