@@ -219,13 +219,33 @@ func TestRampBudget(t *testing.T) {
 	if len(incs) < 2 {
 		t.Errorf("with a budget of %d iterations the step was not halved: %+v", budget, incs)
 	}
+	// The budget holds for steps above the nominal one halved budgetCuts
+	// times (here a quarter of the ramp), reached in fewer halvings.
+	quarter := math.Ldexp(1, -budgetCuts)
+	from := 0.0
 	for _, inc := range incs {
-		if inc.Cuts < budgetCuts && inc.Iterations > budget {
-			t.Errorf("increment %d: %d iterations after %d halvings, budget %d", inc.Index, inc.Iterations, inc.Cuts, budget)
+		if size := inc.Fraction - from; inc.Cuts < budgetCuts && size > quarter*(1+1e-9) && inc.Iterations > budget {
+			t.Errorf("increment %d (%.3g of the ramp): %d iterations after %d halvings, budget %d", inc.Index, size, inc.Iterations, inc.Cuts, budget)
 		}
+		from = inc.Fraction
 	}
 	if math.Abs(held-free) > 1e-6*math.Abs(free) {
 		t.Errorf("end force %.9g with the budget, %.9g without: an elastic bar's force does not depend on the path", held, free)
+	}
+	// Every increment of this bar needs more than one iteration: with a
+	// budget of one, the steps come down to a quarter, and there they get
+	// the full limit, however often they succeed, instead of being halved
+	// again after each success down to nothing.
+	tight, steps := run(RampOptions{Increments: 1, Budget: 1, BudgetCuts: budgetCuts})
+	if math.Abs(tight-free) > 1e-6*math.Abs(free) {
+		t.Errorf("end force %.9g with a budget of one iteration, %.9g without", tight, free)
+	}
+	from = 0
+	for _, inc := range steps {
+		if size := inc.Fraction - from; size < quarter*(1-1e-9) {
+			t.Errorf("budget of one: increment %d is %.3g of the ramp, below a quarter: a step that small is not halved for the budget", inc.Index, size)
+		}
+		from = inc.Fraction
 	}
 }
 

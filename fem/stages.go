@@ -57,7 +57,8 @@ type RampOptions struct {
 	// in some fifteen iterations is as a rule cycling between contact
 	// states, and half the step costs less than the cycling; an increment
 	// that two halvings did not help gets the solver's full iterations
-	// before it is halved again, so the budget never ends a run.
+	// before it is halved again, and so does any increment whose step is
+	// that small already, so the budget never ends a run.
 	Budget, BudgetCuts int
 }
 
@@ -90,8 +91,12 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 			return err
 		}
 		s.log(fmt.Sprintf("increment %d: %.6g → %.6g", count+1, start+at*span, start+next*span))
+		// The budget holds while the step is larger than the nominal one
+		// halved BudgetCuts times: an increment that needs more than the
+		// budget at every size (a slowly converging yielding zone) would
+		// otherwise be halved again after every success, down to nothing.
 		s.budget = 0
-		if cuts < opt.BudgetCuts {
+		if cuts < opt.BudgetCuts && step*float64(opt.Increments) > math.Ldexp(1, -opt.BudgetCuts)*(1+1e-9) {
 			s.budget = opt.Budget
 		}
 		its, err := s.Equilibrium()

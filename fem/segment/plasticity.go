@@ -1,7 +1,9 @@
 package segment
 
 import (
+	"fmt"
 	"math"
+	"strings"
 
 	"flangeseg/fem"
 	"flangeseg/fem/segment/figures"
@@ -31,6 +33,8 @@ type plasticState struct {
 	maxPlastic, maxDmg float64
 	boltDamage         float64
 	boltDamageWhere    string
+	wallDamage         float64
+	wallDamageWhere    string
 }
 
 func (g *segment) readPlastic(pts [][]fem.PointResult) plasticState {
@@ -56,6 +60,10 @@ func (g *segment) readPlastic(pts [][]fem.PointResult) plasticState {
 			ps.points.plastic[e][ip], ps.points.damage[e][ip] = ep, d
 			ps.maxPlastic, ps.maxDmg = math.Max(ps.maxPlastic, ep), math.Max(ps.maxDmg, d)
 			name, ok := siteOf[region.Name]
+			if ok && (name == figures.SiteShell || name == figures.FlangeSite) && d > ps.wallDamage {
+				ps.wallDamage = d
+				ps.wallDamageWhere = fmt.Sprintf("%s at x = %.1f mm, z = %.1f mm", partOf(region.Name), p.X, p.Z)
+			}
 			switch {
 			case !ok:
 			case name == figures.SiteShell:
@@ -78,6 +86,12 @@ func (g *segment) readPlastic(pts [][]fem.PointResult) plasticState {
 		}
 	}
 	return ps
+}
+
+// partOf names the part of a region in words ("upper_flange_hole" →
+// "upper flange").
+func partOf(region string) string {
+	return strings.ReplaceAll(strings.TrimSuffix(region, "_hole"), "_", " ")
 }
 
 // roundCut rounds a coordinate so that the integration points of one row

@@ -83,7 +83,7 @@ func runRobustLogged(t testing.TB, c robustCase) (*Result, int) {
 // it: an ending, or a stop with a diagnosis that names a place and what
 // to try.
 func checkRobust(t testing.TB, c robustCase, r *Result) {
-	endings := []string{"maximum displacement reached", "below its peak", "bolt rupture"}
+	endings := []string{"maximum displacement reached", "below its peak", "bolt rupture", "rupture of the"}
 	if c.completes {
 		if r.Failure != nil {
 			t.Errorf("%s: stopped: %v\n%s", c.file, r.Failure, r.Diagnosis)
@@ -172,4 +172,30 @@ func maxOf(v []float64) float64 {
 		return 0
 	}
 	return slices.Max(v)
+}
+
+// TestWallRuptureEnding: a wall whose ductile damage indicator reaches 1
+// ends the run as a bolt rupture does (testdata/endings/wall_tears.toml):
+// the last row is the first with D ≥ 1 in a shell or flange, and the
+// ending names the part. A consistency check of the ending rule (the
+// indicator's constants are the model file's defaults).
+func TestWallRuptureEnding(t *testing.T) {
+	spec, err := modelfile.Load(filepath.Join("..", "..", "testdata", "endings", "wall_tears.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := Run(context.Background(), spec, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Failure != nil || !strings.HasPrefix(r.Ending, "rupture of the upper shell") && !strings.HasPrefix(r.Ending, "rupture of the lower shell") {
+		t.Fatalf("ending %q (failure %v): want a rupture of the shell", r.Ending, r.Failure)
+	}
+	n := len(r.History)
+	if last := r.History[n-1]; last.WallDamage < 1 {
+		t.Errorf("last row: wall damage %.3g, want ≥ 1", last.WallDamage)
+	}
+	if before := r.History[n-2]; before.WallDamage >= 1 {
+		t.Errorf("the row before the last already had wall damage %.3g: the run went on past it", before.WallDamage)
+	}
 }

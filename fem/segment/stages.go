@@ -132,6 +132,13 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 			res.ending = fmt.Sprintf("bolt rupture: damage indicator D = %.2f ≥ 1 in the %s", row.BoltDamage, row.BoltDamageWhere)
 			return true, nil
 		}
+		// A wall that tears is as much an end as a bolt that ruptures: past
+		// it the material law describes nothing real (the same ductile
+		// damage indicator, with the structural steel's constants).
+		if row.WallDamage >= 1 {
+			res.ending = fmt.Sprintf("rupture of the %s: damage indicator D = %.2f ≥ 1", row.WallDamageWhere, row.WallDamage)
+			return true, nil
+		}
 		return false, nil
 	})
 	res.timing = s.Timing
@@ -407,6 +414,7 @@ func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *figur
 		ps = g.readPlastic(sol.Points)
 		row.MaxPlastic, row.MaxDamage, row.SitePlastic = ps.maxPlastic, ps.maxDmg, ps.site
 		row.BoltDamage, row.BoltDamageWhere = ps.boltDamage, ps.boltDamageWhere
+		row.WallDamage, row.WallDamageWhere = ps.wallDamage, ps.wallDamageWhere
 		res.giving, res.found = g.fastestYielding(res.plastic, ps.points, sol.Points)
 		res.plastic = ps.points
 	}

@@ -29,4 +29,8 @@ type Row struct {
 	SitePlastic           map[string]float64
 	BoltDamage            float64
 	BoltDamageWhere       string
+	// WallDamage is the largest damage indicator in the shells and
+	// flanges, at WallDamageWhere (the part and the point, in words).
+	WallDamage      float64
+	WallDamageWhere string
 }
