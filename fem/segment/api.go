@@ -2,6 +2,7 @@ package segment
 
 import (
 	"context"
+	"fmt"
 
 	"flangeseg/contact"
 	"flangeseg/fem"
@@ -100,9 +101,10 @@ type Result struct {
 	// Diagnosis says in words, when Failure is set, what happened, where,
 	// what the out-of-balance force did and what to try.
 	Diagnosis string
-	// WashersHeldSticking: the preload with sliding washers failed and
-	// the run was made again with the washers held sticking while the
-	// bolt was tightened (see the preload stage).
+	// WashersHeldSticking: the washers were held sticking, not only
+	// pressed, while the bolt was tightened: first for a joint whose
+	// faces start apart, else where the preload with sliding washers
+	// failed and the run was made again (see the preload stage).
 	WashersHeldSticking bool
 	Timing              fem.Timing
 	Equations           int
@@ -138,6 +140,7 @@ func Run(ctx context.Context, spec *modelfile.Spec, opt Options) (*Result, error
 // Run analyses the segment, as Run does. A Segment runs once.
 func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 	g := s.g
+	g.stickWashers = g.facesStartApart()
 	aopt := analyseOptions{inspect: opt.Inspect, log: opt.Log, progress: opt.Progress, keep: opt.Keep, stop: ctx.Err}
 	a, err := g.analyse(aopt)
 	if err != nil {
@@ -145,15 +148,15 @@ func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 	}
 	if a.failure != nil && len(a.rows) == 0 {
 		// The preload failed: once more, from a fresh model, with the
-		// washers held sticking while the bolt is tightened.
+		// washers held the other way while the bolt is tightened.
 		if opt.Log != nil {
-			opt.Log("preload failed; once more with the washers held sticking while the bolt is tightened")
+			opt.Log(fmt.Sprintf("preload failed; once more with the washers %s while the bolt is tightened", washerHold(!g.stickWashers)))
 		}
 		again, err := buildSegment(g.spec, g.der)
 		if err != nil {
 			return nil, err
 		}
-		again.stickWashers = true
+		again.stickWashers = !g.stickWashers
 		b, err := again.analyse(aopt)
 		if err != nil {
 			return nil, err
@@ -172,7 +175,7 @@ func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 		}
 	}
 	r := &Result{Segment: s, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure, Diagnosis: a.diagnosis,
-		WashersHeldSticking: a.retried,
+		WashersHeldSticking: g.stickWashers,
 		Timing:              a.timing, Equations: a.equation, Figures: jointFigures(g, a)}
 	for _, st := range a.states {
 		r.States = append(r.States, State{Label: st.label, Row: st.row, Solution: st.solution, Contacts: st.contacts,
@@ -193,4 +196,12 @@ func addTiming(a, b fem.Timing) fem.Timing {
 	b.Analyses += a.Analyses
 	b.KrylovSteps += a.KrylovSteps
 	return b
+}
+
+// washerHold says how the washers are held while the bolt is tightened.
+func washerHold(stick bool) string {
+	if stick {
+		return "held sticking"
+	}
+	return "held pressed, free to slide"
 }
