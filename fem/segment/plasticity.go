@@ -3,7 +3,6 @@ package segment
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"flangeseg/fem"
 	"flangeseg/fem/segment/figures"
@@ -37,6 +36,12 @@ type plasticState struct {
 	wallDamageWhere    string
 }
 
+// damageSite is where the largest damage of a wall was found.
+type damageSite struct {
+	region string
+	x, z   float64
+}
+
 func (g *segment) readPlastic(pts [][]fem.PointResult) plasticState {
 	var ps plasticState
 	ps.site = map[string]float64{}
@@ -44,6 +49,7 @@ func (g *segment) readPlastic(pts [][]fem.PointResult) plasticState {
 	cuts := map[cutKey][]figures.CutPoint{}
 	ps.points.plastic = make([][]float64, len(pts))
 	ps.points.damage = make([][]float64, len(pts))
+	var wall damageSite
 	for e, pe := range pts {
 		region := g.mesh.Regions[g.mesh.Elements[e].Region]
 		law, ok := g.laws[region.Material].(material.History)
@@ -61,8 +67,7 @@ func (g *segment) readPlastic(pts [][]fem.PointResult) plasticState {
 			ps.maxPlastic, ps.maxDmg = math.Max(ps.maxPlastic, ep), math.Max(ps.maxDmg, d)
 			name, ok := siteOf[region.Name]
 			if ok && (name == figures.SiteShell || name == figures.FlangeSite) && d > ps.wallDamage {
-				ps.wallDamage = d
-				ps.wallDamageWhere = fmt.Sprintf("%s at x = %.1f mm, z = %.1f mm", partOf(region.Name), p.X, p.Z)
+				ps.wallDamage, wall = d, damageSite{region.Name, p.X, p.Z}
 			}
 			switch {
 			case !ok:
@@ -80,18 +85,16 @@ func (g *segment) readPlastic(pts [][]fem.PointResult) plasticState {
 			}
 		}
 	}
+	if ps.wallDamage > 0 {
+		part, _, _ := g.partOf(wall.region)
+		ps.wallDamageWhere = fmt.Sprintf("%s at x = %.1f mm, z = %.1f mm", part, wall.x, wall.z)
+	}
 	for k, c := range cuts {
 		if h := figures.HingeStrain(c); h > 0 {
 			ps.site[k.site] = math.Max(ps.site[k.site], h)
 		}
 	}
 	return ps
-}
-
-// partOf names the part of a region in words ("upper_flange_hole" →
-// "upper flange").
-func partOf(region string) string {
-	return strings.ReplaceAll(strings.TrimSuffix(region, "_hole"), "_", " ")
 }
 
 // roundCut rounds a coordinate so that the integration points of one row

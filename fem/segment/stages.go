@@ -181,10 +181,7 @@ const (
 // of the first steps, at the price of a locked-in friction state that
 // differs a little from a tightening with sliding washers.
 func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
-	force := func() (float64, error) {
-		f, _, _, err := s.SectionForce(g.cut.elems, g.cut.nodes, 0)
-		return f, err
-	}
+	force := g.boltForce(s)
 	g.tighteningWashers(true)
 	target := g.der.PreloadForce
 	v := 0.0
