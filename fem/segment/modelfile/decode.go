@@ -3,6 +3,7 @@ package modelfile
 import (
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"reflect"
@@ -14,10 +15,20 @@ import (
 	"github.com/BurntSushi/toml"
 )
 
-// Load reads and decodes the model file at path. A *Error names
-// the file on every line.
+// MaxFileSize bounds the size of a model file, bytes. A model file is a
+// few kilobytes; the bound keeps a wrong file (a mesh, a log, a disk
+// image) from being read into memory whole.
+const MaxFileSize = 1 << 20
+
+// Load reads and decodes the model file at path, reading no more than
+// MaxFileSize bytes and one. A *Error names the file on every line.
 func Load(path string) (*Spec, error) {
-	data, err := os.ReadFile(path)
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("read model file: %w", err)
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
 	if err != nil {
 		return nil, fmt.Errorf("read model file: %w", err)
 	}
@@ -37,6 +48,9 @@ func Load(path string) (*Spec, error) {
 // the Spec's tags here rather than by toml's struct decoding, which accepts
 // keys in any letter case and stops at the first value of the wrong type.
 func Decode(data []byte) (*Spec, error) {
+	if len(data) > MaxFileSize {
+		return nil, &Error{Errs: []error{tooLarge(len(data))}}
+	}
 	var raw map[string]any
 	md, err := toml.Decode(string(data), &raw)
 	if err != nil {
@@ -79,6 +93,12 @@ func (e *Error) Error() string {
 
 // Unwrap gives the problems, for errors.Is and errors.As.
 func (e *Error) Unwrap() []error { return e.Errs }
+
+// tooLarge is the error of a model file of n bytes, more than MaxFileSize
+// (n is a lower bound when the file was read only that far).
+func tooLarge(n int) error {
+	return fmt.Errorf("file size = %d bytes or more: must be at most %d bytes (1 MiB); a model file is a few kilobytes of TOML", n, MaxFileSize)
+}
 
 func syntaxError(err error) error {
 	var pe toml.ParseError
