@@ -43,35 +43,33 @@ Flags:
 		fmt.Fprintln(stderr, "flangeseg compare: want two or more model files; run 'flangeseg compare --help'")
 		return exitBadInput
 	}
-	jobs, names, ok := compareJobs(fs.Args(), *outDir, stderr)
+	jobs, names, ok := compareJobs(fs.Args(), stderr)
 	if !ok {
 		return exitBadInput
 	}
-	sums, code := runModels(jobs, "compare", *verbose, stdout, stderr)
-	if code != exitOK {
-		fmt.Fprintln(stderr, "flangeseg compare: a model did not finish; no comparison written")
-		return code
-	}
-	compareTable(stdout, names, sums)
-	if err := note.WriteCompare(*outDir, names, jobs, sums); err != nil {
-		fmt.Fprintf(stderr, "flangeseg compare: writing the report: %v\n", err)
-		return exitAnalysis
-	}
-	paths, dirs := make([]string, len(jobs)), make([]string, len(jobs))
-	for i, j := range jobs {
-		paths[i], dirs[i] = j.Path, j.Dir
-	}
-	if err := results.WriteComparison(*outDir, names, paths, dirs, sums); err != nil {
-		fmt.Fprintf(stderr, "flangeseg compare: writing the comparison: %v\n", err)
-		return exitAnalysis
-	}
-	fmt.Fprintf(stdout, "comparison in %s\n", *outDir)
-	return exitOK
+	return runSideBySide(*outDir, "compare", jobs, *verbose, stdout, stderr, func(staged string, sums []results.Summary) int {
+		compareTable(stdout, names, sums)
+		if err := note.WriteCompare(staged, names, jobs, sums); err != nil {
+			fmt.Fprintf(stderr, "flangeseg compare: writing the report: %v\n", err)
+			return exitAnalysis
+		}
+		paths, dirs := make([]string, len(jobs)), make([]string, len(jobs))
+		for i, j := range jobs {
+			paths[i], dirs[i] = j.Path, j.Dir
+		}
+		if err := results.WriteComparison(staged, names, paths, dirs, sums); err != nil {
+			fmt.Fprintf(stderr, "flangeseg compare: writing the comparison: %v\n", err)
+			return exitAnalysis
+		}
+		fmt.Fprintf(stdout, "comparison in %s\n", *outDir)
+		return exitOK
+	})
 }
 
 // compareJobs loads every model (all errors are reported before any run)
-// and gives each a run directory named after its file.
-func compareJobs(paths []string, dir string, stderr io.Writer) ([]note.ModelJob, []string, bool) {
+// and gives each a run directory named after its file (relative to the
+// comparison's directory).
+func compareJobs(paths []string, stderr io.Writer) ([]note.ModelJob, []string, bool) {
 	var jobs []note.ModelJob
 	var names []string
 	used := map[string]int{}
@@ -91,7 +89,7 @@ func compareJobs(paths []string, dir string, stderr io.Writer) ([]note.ModelJob,
 			name = fmt.Sprintf("%s_%d", name, n)
 		}
 		names = append(names, name)
-		jobs = append(jobs, note.ModelJob{Spec: spec, Path: path, Dir: filepath.Join(dir, name)})
+		jobs = append(jobs, note.ModelJob{Spec: spec, Path: path, Dir: name})
 	}
 	return jobs, names, ok
 }
