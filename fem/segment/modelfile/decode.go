@@ -100,12 +100,29 @@ func tooLarge(n int) error {
 	return fmt.Errorf("file size = %d bytes or more: must be at most %d bytes (1 MiB); a model file is a few kilobytes of TOML", n, MaxFileSize)
 }
 
+// syntaxError is a TOML parse error on one line: the parser quotes the
+// offending text, which may hold a line break or other control
+// characters; they are shown escaped, as Go writes them.
 func syntaxError(err error) error {
 	var pe toml.ParseError
 	if errors.As(err, &pe) {
-		return fmt.Errorf("line %d: TOML syntax: %s", pe.Position.Line, pe.Message)
+		return fmt.Errorf("line %d: TOML syntax: %s", pe.Position.Line, oneLine(pe.Message))
 	}
-	return fmt.Errorf("TOML syntax: %w", err)
+	return fmt.Errorf("TOML syntax: %s", oneLine(err.Error()))
+}
+
+// oneLine escapes the control characters of s (\n, \t, \x00 …).
+func oneLine(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		if r < 0x20 || r == 0x7f || r == 0x85 || r == 0x2028 || r == 0x2029 {
+			q := strconv.QuoteRune(r)
+			b.WriteString(q[1 : len(q)-1])
+			continue
+		}
+		b.WriteRune(r)
+	}
+	return b.String()
 }
 
 // decoder copies parsed TOML tables into a Spec, checking every key and
