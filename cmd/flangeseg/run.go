@@ -59,9 +59,8 @@ Flags:
 	if dir == "" {
 		dir = strings.TrimSuffix(filepath.Base(path), ".toml") + "_results"
 	}
-	spec, err := modelfile.Load(path)
-	if err != nil {
-		fmt.Fprintln(stderr, err)
+	spec, ok := loadOrReport(path, "run", stderr)
+	if !ok {
 		return exitBadInput
 	}
 	if err := results.CheckOutDir(dir); err != nil {

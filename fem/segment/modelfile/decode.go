@@ -193,12 +193,20 @@ func (d *decoder) table(path, ord string, raw map[string]any, v reflect.Value) {
 		p := joinKey(path, k)
 		i, ok := index[k]
 		if !ok {
-			d.errs = append(d.errs, fmt.Errorf("unknown key %q%s", p, suggest(k, names)))
+			d.errs = append(d.errs, fmt.Errorf("unknown key %q = %s: not a key of %s%s", p, tomlValue(raw[k]), tableName(path), suggest(k, names)))
 			continue
 		}
 		d.given[p] = true
 		d.value(p, joinKey(ord, k), raw[k], v.Field(i))
 	}
+}
+
+// tableName names the table at path for messages.
+func tableName(path string) string {
+	if path == "" {
+		return "the model file's top level"
+	}
+	return "[" + path + "]"
 }
 
 // value decodes one TOML value into v and reports whether it could.
