@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strings"
 	"sync"
+	"syscall"
 	"testing"
 	"time"
 )
@@ -114,6 +115,15 @@ func (c *child) wait(t *testing.T) (int, string, string) {
 	c.mu.Lock()
 	defer c.mu.Unlock()
 	return c.cmd.ProcessState.ExitCode(), c.stdout.String(), c.stderr.String()
+}
+
+// maxRSS is the ended child's peak resident memory, bytes (Linux gives
+// getrusage's ru_maxrss in kilobytes).
+func (c *child) maxRSS() float64 {
+	if ru, ok := c.cmd.ProcessState.SysUsage().(*syscall.Rusage); ok {
+		return float64(ru.Maxrss) * 1024
+	}
+	return 0
 }
 
 func (c *child) errText() string {

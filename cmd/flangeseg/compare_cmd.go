@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post/note"
 	"flangeseg/post/results"
 )
@@ -16,8 +17,9 @@ func runCompare(args []string, stdout, stderr io.Writer) int {
 	fs.SetOutput(stderr)
 	outDir := fs.String("o", "compare_results", "write each model's run into `DIR`/NAME and the comparison into DIR")
 	verbose := fs.Bool("verbose", false, "log every Newton iteration on stderr (runs the models one by one)")
+	limit := addMemoryFlag(fs)
 	fs.Usage = func() {
-		fmt.Fprintf(stderr, `Usage: flangeseg compare A.toml B.toml [C.toml ...] [-o DIR] [--verbose]
+		fmt.Fprintf(stderr, `Usage: flangeseg compare A.toml B.toml [C.toml ...] [-o DIR] [--verbose] [--max-memory SIZE]
 
 Runs several models side by side (one per core) and compares them: a table
 of initial stiffness, secant stiffness to the reference load, load factor,
@@ -45,6 +47,13 @@ Flags:
 	}
 	jobs, names, ok := compareJobs(fs.Args(), stderr)
 	if !ok {
+		return exitBadInput
+	}
+	specs, paths := make([]*modelfile.Spec, len(jobs)), make([]string, len(jobs))
+	for i, j := range jobs {
+		specs[i], paths[i] = j.Spec, j.Path
+	}
+	if !checkSizes(specs, paths, limit, stderr) {
 		return exitBadInput
 	}
 	return runSideBySide(*outDir, "compare", jobs, *verbose, stdout, stderr, func(staged string, sums []results.Summary) int {

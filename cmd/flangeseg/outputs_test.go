@@ -9,6 +9,8 @@ import (
 	"strings"
 	"testing"
 
+	"flangeseg/fem/segment"
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post/results"
 )
 
@@ -69,10 +71,30 @@ func TestDeterministicOutputs(t *testing.T) {
 			if first == nil {
 				first, firstName = files, name
 				checkYielded(t, files["history.csv"])
+				checkEstimate(t, model, c.maxRSS())
 				continue
 			}
 			compareTrees(t, firstName, first, name, files)
 		}
+	}
+}
+
+// checkEstimate compares the memory estimate of the model at path with a
+// run's measured peak: the estimate must not be below it, nor more than
+// three times it.
+func checkEstimate(t *testing.T, path string, peak float64) {
+	t.Helper()
+	spec, err := modelfile.Load(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	est, err := segment.EstimateSize(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("%.0f equations: peak memory %s estimated, %s measured", est.Equations, formatBytes(est.PeakBytes), formatBytes(peak))
+	if peak > 0 && (est.PeakBytes < peak || est.PeakBytes > 3*peak) {
+		t.Errorf("estimated peak %s against %s measured: want from 1 to 3 times it", formatBytes(est.PeakBytes), formatBytes(peak))
 	}
 }
 

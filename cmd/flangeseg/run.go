@@ -29,8 +29,9 @@ func runRun(args []string, stdout, stderr io.Writer) int {
 	outDir := fs.String("o", "", "write the results into this `DIR` (default: the model file's name without .toml, plus _results)")
 	verbose := fs.Bool("verbose", false, "log every Newton iteration on stderr")
 	dump := fs.String("dump-matrix", "", "write the first assembled tangent and residual in Matrix Market form into this `DIR`")
+	limit := addMemoryFlag(fs)
 	fs.Usage = func() {
-		fmt.Fprintf(stderr, `Usage: flangeseg run MODEL.toml [-o DIR] [--verbose] [--dump-matrix DIR]
+		fmt.Fprintf(stderr, `Usage: flangeseg run MODEL.toml [-o DIR] [--verbose] [--dump-matrix DIR] [--max-memory SIZE]
 
 Builds the finite-element model of one bolt segment from MODEL.toml,
 preloads the bolt, loads the segment in tension by moving the shell end and
@@ -61,6 +62,10 @@ Flags:
 	}
 	spec, ok := loadOrReport(path, "run", stderr)
 	if !ok {
+		return exitBadInput
+	}
+	if _, err := checkSize(spec, limit, 0); err != nil {
+		fmt.Fprintf(stderr, "%s: %v\n", path, err)
 		return exitBadInput
 	}
 	if err := results.CheckOutDir(dir); err != nil {
