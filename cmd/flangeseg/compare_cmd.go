@@ -32,6 +32,11 @@ are in DIR/NAME, NAME being its file name without .toml.
 Typical uses: defined contact bands against a flat face, a fully threaded
 against a partially threaded bolt, another flange thickness.
 
+DIR must be new, empty or an earlier flangeseg result (it holds
+flangeseg_result.txt), which is replaced whole; anything else is refused.
+Ctrl-C or SIGTERM stops the analysis after the increment in hand, writes
+what converged and exits 3.
+
 %s
 
 Flags:

@@ -32,6 +32,11 @@ range; --to-failure runs the flat-face joint with yielding and large
 deformation until the bolt ruptures or 30 mm, and states its ultimate load
 against the hand methods.
 
+DIR must be new, empty or an earlier flangeseg result (it holds
+flangeseg_result.txt), which is replaced whole; anything else is refused.
+Ctrl-C or SIGTERM stops the analysis after the increment in hand, writes
+what converged and exits 3.
+
 %s
 
 Flags:

@@ -42,6 +42,11 @@ fields.pvd) and model.resolved.toml (the model with every default filled
 in). Exit codes: 0 done, 2 bad model file, 3 the analysis stopped before
 its end (results up to the last converged increment are written).
 
+DIR must be new, empty or an earlier flangeseg result (it holds
+flangeseg_result.txt), which is replaced whole; anything else is refused.
+Ctrl-C or SIGTERM stops the analysis after the increment in hand, writes
+what converged and exits 3.
+
 %s
 
 Flags:
