@@ -182,30 +182,20 @@ func runOptions(path string, spec *modelfile.Spec, flags runFlags, stderr io.Wri
 // job's Dir: staged (under a temporary name, then renamed into place
 // whole, replacing an earlier result) or straight into a directory that
 // is itself staged. Either way the directory is marked as a run's result.
-func writeRun(job note.ModelJob, stage bool, res *segment.Result) (results.Summary, error) {
-	dir := job.Dir
-	var st *results.Staging
-	if stage {
-		var err error
-		if st, err = results.Stage(dir); err != nil {
-			return results.Summary{}, err
+func writeRun(job note.ModelJob, stage bool, res *segment.Result) (sum results.Summary, err error) {
+	write := func(dir string) error {
+		if sum, err = results.Write(dir, job.Path, res); err != nil {
+			return err
 		}
-		dir = st.Dir
+		return note.WriteRun(dir, job.Path, job.Text, res, sum)
 	}
-	sum, err := results.Write(dir, job.Path, res)
-	if err == nil {
-		err = note.WriteRun(dir, job.Path, job.Text, res, sum)
+	if stage {
+		return sum, results.WriteStaged(job.Dir, results.KindRun, write)
 	}
-	switch {
-	case err != nil && st != nil:
-		st.Discard()
-	case err != nil:
-	case st != nil:
-		err = st.Commit(results.KindRun)
-	default:
-		err = results.Mark(dir, results.KindRun)
+	if err := write(job.Dir); err != nil {
+		return sum, err
 	}
-	return sum, err
+	return sum, results.Mark(job.Dir, results.KindRun)
 }
 
 // progressBar returns a bar on a terminal, nil in pipes and CI.

@@ -20,6 +20,8 @@ const MarkerFile = "flangeseg_result.txt"
 const (
 	KindRun        = "run"        // one model's run
 	KindComparison = "comparison" // runs side by side (compare, demo) and their comparison
+	KindFatigue    = "fatigue"    // a bolt fatigue assessment
+	KindMesh       = "mesh"       // a mesh to look at
 )
 
 // ErrNotResult is wrapped by the error of an output directory that exists
@@ -159,4 +161,19 @@ func (s *Staging) Commit(kind string) error {
 		}
 	}
 	return nil
+}
+
+// WriteStaged writes a result of kind into dir whole: it stages dir
+// (Stage), lets write fill the staging directory and commits it; if
+// write fails, the staging directory is removed and dir stays as it was.
+func WriteStaged(dir, kind string, write func(staged string) error) error {
+	st, err := Stage(dir)
+	if err != nil {
+		return err
+	}
+	if err := write(st.Dir); err != nil {
+		st.Discard()
+		return err
+	}
+	return st.Commit(kind)
 }
