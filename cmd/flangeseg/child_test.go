@@ -2,13 +2,13 @@ package main
 
 import (
 	"bufio"
+	"fmt"
 	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"strings"
 	"sync"
-	"syscall"
 	"testing"
 	"time"
 )
@@ -47,6 +47,7 @@ type child struct {
 	stderr strings.Builder
 	mu     sync.Mutex
 	stdout strings.Builder
+	peak   float64 // bytes, see watchPeak
 }
 
 // startChild starts the binary with args (and extra environment) in dir.
@@ -63,6 +64,7 @@ func startChild(t *testing.T, dir string, env []string, args ...string) *child {
 	if err := c.cmd.Start(); err != nil {
 		t.Fatal(err)
 	}
+	c.watchPeak()
 	go func() {
 		defer close(c.lines)
 		sc := bufio.NewScanner(pipe)
@@ -117,13 +119,39 @@ func (c *child) wait(t *testing.T) (int, string, string) {
 	return c.cmd.ProcessState.ExitCode(), c.stdout.String(), c.stderr.String()
 }
 
-// maxRSS is the ended child's peak resident memory, bytes (Linux gives
-// getrusage's ru_maxrss in kilobytes).
+// watchPeak polls the child's VmHWM (the high-water mark of its resident
+// memory since its exec, in /proc/PID/status) until it ends. getrusage's
+// ru_maxrss cannot serve: it keeps the parent's resident size from before
+// the exec, which in a test binary is larger than the child's.
+func (c *child) watchPeak() {
+	path := fmt.Sprintf("/proc/%d/status", c.cmd.Process.Pid)
+	go func() {
+		for {
+			data, err := os.ReadFile(path)
+			if err != nil {
+				return
+			}
+			for _, l := range strings.Split(string(data), "\n") {
+				if rest, ok := strings.CutPrefix(l, "VmHWM:"); ok {
+					var kb float64
+					if _, err := fmt.Sscanf(strings.TrimSpace(rest), "%g kB", &kb); err == nil {
+						c.mu.Lock()
+						c.peak = max(c.peak, kb*1024)
+						c.mu.Unlock()
+					}
+				}
+			}
+			time.Sleep(5 * time.Millisecond)
+		}
+	}()
+}
+
+// maxRSS is the largest VmHWM read while the child ran, bytes; 0 where
+// /proc is missing.
 func (c *child) maxRSS() float64 {
-	if ru, ok := c.cmd.ProcessState.SysUsage().(*syscall.Rusage); ok {
-		return float64(ru.Maxrss) * 1024
-	}
-	return 0
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	return c.peak
 }
 
 func (c *child) errText() string {
