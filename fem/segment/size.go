@@ -44,5 +44,10 @@ func EstimateSize(spec *modelfile.Spec) (Size, error) {
 		perState = bytesPerEquationStatePl
 	}
 	s.PeakBytes = baseBytes + s.Equations*(bytesPerEquation+float64(perState*s.States))
+	if spec.Contact.Taper != 0 || spec.Contact.ParallelGap > 0 {
+		// The closing search builds and solves a second model of the same
+		// size while the analysis's states are kept (findClosing).
+		s.PeakBytes += s.Equations * bytesPerEquation
+	}
 	return s, nil
 }
