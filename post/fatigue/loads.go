@@ -121,9 +121,10 @@ type LoadFile struct {
 	done  bool
 }
 
-// NewLoadFile reads the header of a load file and finds its layout.
+// NewLoadFile reads the header of a load file and finds its layout. No
+// line may be longer than MaxLine.
 func NewLoadFile(r io.Reader) (*LoadFile, error) {
-	cr := csv.NewReader(r)
+	cr := csv.NewReader(limitLines(r))
 	cr.Comment = '#'
 	cr.TrimLeadingSpace = true
 	cr.ReuseRecord = true

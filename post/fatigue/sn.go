@@ -201,11 +201,15 @@ func FromPoints(name string, pts []Point) (*Curve, error) {
 	return NewCurve(name, branches)
 }
 
+// MaxCurvePoints bounds the points of an S–N curve file.
+const MaxCurvePoints = 10_000
+
 // ReadCurve reads an S–N curve as CSV points with the header
 // "cycles,stress_range_MPa" (columns in either order; lines starting with
-// # are comments) and returns FromPoints of them.
+// # are comments; at most MaxCurvePoints points, no line longer than
+// MaxLine) and returns FromPoints of them.
 func ReadCurve(r io.Reader, name string) (*Curve, error) {
-	cr := csv.NewReader(r)
+	cr := csv.NewReader(limitLines(r))
 	cr.Comment = '#'
 	cr.TrimLeadingSpace = true
 	head, err := cr.Read()
@@ -235,6 +239,9 @@ func ReadCurve(r io.Reader, name string) (*Curve, error) {
 		ds, err2 := strconv.ParseFloat(strings.TrimSpace(rec[ir]), 64)
 		if err := errors.Join(err1, err2); err != nil {
 			return nil, fmt.Errorf("fatigue: S–N curve %q: line %d: %q, %q: both must be numbers", name, line, rec[ic], rec[ir])
+		}
+		if len(pts) == MaxCurvePoints {
+			return nil, fmt.Errorf("fatigue: S–N curve %q: line %d: more than %d points: a curve has a few", name, line, MaxCurvePoints)
 		}
 		pts = append(pts, Point{Cycles: n, Range: ds})
 	}
