@@ -115,24 +115,30 @@ func sizeLine(s segment.Size) string {
 		s.Elements, s.Equations, s.States, formatBytes(s.PeakBytes))
 }
 
-// checkSize estimates a model's size and refuses it, in the form of the
-// model file's errors (key = value: rule), when its peak memory, plus
-// others (the peaks of the models that run beside it), exceeds the limit.
+// checkSize estimates a model's size (segment.EstimateSize) and refuses
+// it as refuseSize does.
 func checkSize(spec *modelfile.Spec, limit *memoryLimit, others float64) (segment.Size, error) {
 	s, err := segment.EstimateSize(spec)
 	if err != nil {
 		return s, err
 	}
+	return s, refuseSize(spec, s, limit, others)
+}
+
+// refuseSize refuses a model of size s, in the form of the model file's
+// errors (key = value: rule), when its peak memory plus others (the peaks
+// of the models that run beside it) exceeds the limit.
+func refuseSize(spec *modelfile.Spec, s segment.Size, limit *memoryLimit, others float64) error {
 	max, from := limit.limit()
 	if max == 0 || s.PeakBytes+others <= max {
-		return s, nil
+		return nil
 	}
 	m := spec.Mesh
 	need := formatBytes(s.PeakBytes)
 	if others > 0 {
 		need = fmt.Sprintf("%s (with the models that run beside it, %s)", need, formatBytes(s.PeakBytes+others))
 	}
-	return s, fmt.Errorf("mesh.size = %s, mesh.refine = %s, load.increments = %d: the model needs about %.0f equations and %s of memory, more than the limit of %s (%s); raise mesh.size or mesh.refine (the equations grow as 1/size²), or lower load.increments (every increment keeps its fields), or give --max-memory",
+	return fmt.Errorf("mesh.size = %s, mesh.refine = %s, load.increments = %d: the model needs about %.0f equations and %s of memory, more than the limit of %s (%s); raise mesh.size or mesh.refine (the equations grow as 1/size²), or lower load.increments (every increment keeps its fields), or give --max-memory",
 		modelfile.FormatNumber(m.Size), modelfile.FormatNumber(m.Refine), spec.Load.Increments, s.Equations, need, formatBytes(max), from)
 }
 

@@ -29,16 +29,16 @@ func runValidate(args []string, stdout, stderr io.Writer) int {
 	if !ok {
 		return exitBadInput
 	}
-	size, sizeErr := checkSize(s, limit, 0)
-	if sizeErr != nil && size.Equations == 0 {
-		fmt.Fprintf(stderr, "%s: %v\n", path, sizeErr)
+	size, err := segment.EstimateSize(s)
+	if err != nil {
+		fmt.Fprintf(stderr, "%s: %v\n", path, err)
 		return exitBadInput
 	}
 	if err := printModel(stdout, path, s, size, limit); err != nil {
 		fmt.Fprintf(stderr, "flangeseg validate: %v\n", err)
 		return exitBadInput
 	}
-	if sizeErr != nil {
+	if sizeErr := refuseSize(s, size, limit, 0); sizeErr != nil {
 		fmt.Fprintf(stderr, "%s: %v\n%s: model refused: too large for the memory limit (1 error)\n", path, sizeErr, path)
 		return exitBadInput
 	}
