@@ -165,7 +165,7 @@ func checkSizes(specs []*modelfile.Spec, paths []string, limit *memoryLimit, std
 			beside += p
 		}
 		if _, err := checkSize(s, limit, beside); err != nil {
-			fmt.Fprintf(stderr, "%s: %v\n", paths[i], err)
+			reportModelError(paths[i], err, stderr)
 			ok = false
 		}
 	}

@@ -70,7 +70,7 @@ Flags:
 		return exitBadInput
 	}
 	if _, err := checkSize(spec, limit, 0); err != nil {
-		fmt.Fprintf(stderr, "%s: %v\n", path, err)
+		reportModelError(path, err, stderr)
 		return exitBadInput
 	}
 	if err := results.CheckOutDir(dir); err != nil {
@@ -115,7 +115,7 @@ func runModel(ctx context.Context, job note.ModelJob, flags runFlags, stdout, st
 	}
 	seg, err := segment.Build(spec)
 	if err != nil {
-		fmt.Fprintf(stderr, "%s: %v\n", path, err)
+		reportModelError(path, err, stderr)
 		return exitBadInput
 	}
 	opt, finish, err := runOptions(path, spec, flags, stderr)

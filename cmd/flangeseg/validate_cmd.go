@@ -31,7 +31,7 @@ func runValidate(args []string, stdout, stderr io.Writer) int {
 	}
 	size, err := segment.EstimateSize(s)
 	if err != nil {
-		fmt.Fprintf(stderr, "%s: %v\n", path, err)
+		reportModelError(path, err, stderr)
 		return exitBadInput
 	}
 	if err := printModel(stdout, path, s, size, limit); err != nil {
@@ -54,14 +54,32 @@ func loadOrReport(path, command string, stderr io.Writer) (*modelfile.Spec, bool
 	var me *modelfile.Error
 	switch {
 	case errors.As(err, &me):
-		fmt.Fprintln(stderr, err)
-		fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.Errs), plural(len(me.Errs), "error", "errors"))
+		reportInvalid(path, me, stderr)
 		return nil, false
 	case err != nil:
 		fmt.Fprintf(stderr, "flangeseg %s: %v\n", command, err)
 		return nil, false
 	}
 	return s, true
+}
+
+// reportInvalid writes every problem of an invalid model, each after the
+// file name, and their count.
+func reportInvalid(path string, me *modelfile.Error, stderr io.Writer) {
+	me.File = path
+	fmt.Fprintln(stderr, me)
+	fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.Errs), plural(len(me.Errs), "error", "errors"))
+}
+
+// reportModelError writes an error about the model at path: every
+// problem of a *modelfile.Error, else the error after the file name.
+func reportModelError(path string, err error, stderr io.Writer) {
+	var me *modelfile.Error
+	if errors.As(err, &me) {
+		reportInvalid(path, me, stderr)
+		return
+	}
+	fmt.Fprintf(stderr, "%s: %v\n", path, err)
 }
 
 func plural(n int, one, many string) string {

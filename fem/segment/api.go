@@ -19,11 +19,12 @@ type Segment struct{ g *segment }
 
 // Build meshes the joint of a valid model and sets up the finite-element
 // model (supports, ring springs, the bolt's tie, the contact pairs, the
-// loaded edge) and the hand methods beside it.
+// loaded edge) and the hand methods beside it. A model the mesh refuses
+// (beyond the model file's own rules) gives a *modelfile.Error.
 func Build(spec *modelfile.Spec) (*Segment, error) {
 	g, err := buildSegment(spec, spec.Derive())
 	if err != nil {
-		return nil, err
+		return nil, inputError(err)
 	}
 	return &Segment{g}, nil
 }

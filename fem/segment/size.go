@@ -36,7 +36,7 @@ const (
 func EstimateSize(spec *modelfile.Spec) (Size, error) {
 	fs, err := geometry(spec, spec.Derive()).PlanSize()
 	if err != nil {
-		return Size{}, err
+		return Size{}, inputError(err)
 	}
 	s := Size{Elements: fs.Elements, Nodes: fs.Nodes, Equations: 2 * fs.Nodes, States: spec.Load.Increments + 1}
 	perState := bytesPerEquationState

@@ -266,8 +266,8 @@ func (s *Spec) checkBoltFit(c *checker, d float64) {
 		c.fail("bolt.thread_length", "bolt.thread_length: missing (threaded length inside the clamp)")
 	case b.Thread == ThreadPartial && c.usable("flange.thickness", "bolt.washer_thickness"):
 		lk := 2 * (s.Flange.Thickness + b.WasherThickness)
-		c.number("bolt.thread_length", *b.ThreadLength, *b.ThreadLength >= 0 && *b.ThreadLength <= lk,
-			fmt.Sprintf("must lie in [0, l_k = %s mm], l_k = 2(t_f + t_w)", FormatNumber(lk)))
+		c.number("bolt.thread_length", *b.ThreadLength, *b.ThreadLength > 0 && *b.ThreadLength <= lk,
+			fmt.Sprintf("must lie in (0, l_k = %s mm], l_k = 2(t_f + t_w)", FormatNumber(lk)))
 	}
 }
 
@@ -424,6 +424,10 @@ func (s *Spec) checkMesh(c *checker) {
 	c.positive("mesh.size", m.Size)
 	c.number("mesh.refine", m.Refine, m.Refine > 0 && m.Refine <= 1, "must lie in (0, 1]")
 	c.oneOf("mesh.element", m.Element, ElementQuad8, ElementQuad4)
+	if r := s.Flange.NeckRadius; c.usable("flange.neck_radius", "mesh.size", "mesh.refine") && r > 0 && r < m.Size*m.Refine {
+		c.fail("flange.neck_radius", "flange.neck_radius = %s: must be 0 (a sharp corner) or at least the fine element length mesh.size·mesh.refine = %s mm, so that the elements can follow the fillet",
+			FormatNumber(r), FormatNumber(m.Size*m.Refine))
+	}
 	c.oneOf("analysis.plane", s.Analysis.Plane, PlaneStress, PlaneStrain)
 	c.oneOf("analysis.materials", s.Analysis.Materials, Elastoplastic, ElasticOnly)
 	c.number("fatigue.gamma_mf", s.Fatigue.GammaMf, s.Fatigue.GammaMf >= 1, "must be ≥ 1 (EN 1993-1-9 Table 3.1 recommends 1.00 to 1.35)")
