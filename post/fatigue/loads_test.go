@@ -114,3 +114,19 @@ func TestLongLineRefused(t *testing.T) {
 		t.Errorf("curve of too many points: %v", err)
 	}
 }
+
+// Finite numbers whose segment force or S–N slope overflows are refused
+// with the line or point they come from (found by FuzzReadLoads and
+// FuzzReadCurve's stricter checks).
+func TestOverflowRefused(t *testing.T) {
+	for _, text := range []string{"Z_range_kN,Z_mean_kN,cycles\n1,1e308,1\n", "Z_kN\n0\n1e308\n", "moment_kNm,normal_force_kN\n0,0\n1e306,0\n"} {
+		_, _, err := collect(t, text, Tower{Diameter: 4000, Bolts: 100})
+		if err == nil || !strings.Contains(err.Error(), "must be finite (a number of the line is far too large)") || !strings.Contains(err.Error(), "line ") {
+			t.Errorf("%q: %v", text, err)
+		}
+	}
+	_, err := ReadCurve(strings.NewReader("cycles,stress_range_MPa\n1e-300,100\n1e300,50\n"), "c")
+	if err == nil || !strings.Contains(err.Error(), "point 1 (N = 1e+300") {
+		t.Errorf("curve: %v", err)
+	}
+}

@@ -196,7 +196,15 @@ func FromPoints(name string, pts []Point) (*Curve, error) {
 	branches := make([]Branch, len(pts)-1)
 	for i := range branches {
 		p, q := pts[i], pts[i+1]
-		branches[i] = Branch{Slope: math.Log(q.Cycles/p.Cycles) / math.Log(p.Range/q.Range), Range: p.Range, Cycles: p.Cycles, Lower: q.Range}
+		m := math.Log(q.Cycles/p.Cycles) / math.Log(p.Range/q.Range)
+		if !(m > 0) || math.IsInf(m, 0) {
+			errs = append(errs, fmt.Errorf("fatigue: S–N curve %q: point %d (N = %v, Δσ = %v MPa): the line from point %d has slope m = %v: must be a finite number > 0 (the points lie too far apart or too close)",
+				name, i+1, q.Cycles, q.Range, i, m))
+		}
+		branches[i] = Branch{Slope: m, Range: p.Range, Cycles: p.Cycles, Lower: q.Range}
+	}
+	if err := errors.Join(errs...); err != nil {
+		return nil, err
 	}
 	return NewCurve(name, branches)
 }
