@@ -104,7 +104,8 @@ func combinedProgress(stderr io.Writer, total int, label string) func(done []int
 }
 
 // runSideBySide runs jobs side by side (runModels), each into the
-// directory named by its Dir inside dir, and then, if every run finished,
+// directory named by its Dir inside dir (the jobs' Dir are rewritten in
+// place to the staged directories), and then, if every run finished,
 // compareAll, which writes the comparison into the directory it is given.
 // Everything is written into a staged copy of dir that replaces it whole
 // at the end (results.Stage): dir must be new, empty or an earlier
