@@ -129,7 +129,7 @@ func runSideBySide(dir, label string, jobs []note.ModelJob, verbose bool, stdout
 	if code == exitOK {
 		code = compareAll(st.Dir, sums)
 	}
-	if ctx.Err() != nil {
+	if ctx.Err() != nil && code != exitOK {
 		fmt.Fprintf(stderr, "flangeseg %s: interrupted (%v); each run up to its last converged increment is in %s; no comparison written\n", label, context.Cause(ctx), dir)
 	}
 	if st.Empty() {
