@@ -132,7 +132,12 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 		}
 		// A step that went through at once may grow back towards the
 		// nominal one; after a cut, one success at the cut size first.
-		if cuts == 0 {
+		// Under a budget, a step that needed more than half of it
+		// is not grown: the contact state is still changing fast, and a
+		// doubled step would be halved again (iteration-count step
+		// control, Crisfield, Non-linear Finite Element Analysis of Solids
+		// and Structures, vol. 1, 1991, §9.5).
+		if cuts == 0 && (opt.Budget == 0 || 2*its <= opt.Budget) {
 			step = math.Min(1.0/float64(opt.Increments), 2*step)
 		}
 		cuts = 0
