@@ -15,20 +15,27 @@ import (
 func writeFields(dir string, r *segment.Result) error {
 	var series []post.SeriesEntry
 	for _, st := range FieldStates(r) {
-		point, cell, err := post.SolutionFields(st.Solution)
-		if err != nil {
-			return err
-		}
-		point = append(point, contactFields(len(st.Solution.Model().Mesh().Nodes), st.Contacts)...)
-		cell = append(cell, historyFields(st.Plastic, st.Damage, len(st.Solution.Model().Mesh().Elements))...)
 		name := fmt.Sprintf("state_%03d.vtu", st.Row.Increment)
-		mesh := st.Solution.Model().Mesh()
-		if err := post.WriteVTU(filepath.Join(dir, "fields", name), post.GridFromMesh(mesh), point, cell); err != nil {
+		if err := writeState(filepath.Join(dir, "fields", name), st); err != nil {
 			return err
 		}
 		series = append(series, post.SeriesEntry{Time: float64(st.Row.Increment), File: filepath.Join("fields", name)})
 	}
 	return post.WritePVD(filepath.Join(dir, "fields.pvd"), series)
+}
+
+// writeState writes the field file of one state: displacement, nodal
+// stresses, contact pressure and gap as point data; region, plastic
+// strain and damage as cell data.
+func writeState(path string, st segment.State) error {
+	m := st.Solution.Model().Mesh()
+	point, cell, err := post.SolutionFields(st.Solution)
+	if err != nil {
+		return err
+	}
+	point = append(point, contactFields(len(m.Nodes), st.Contacts)...)
+	cell = append(cell, historyFields(st.Plastic, st.Damage, len(m.Elements))...)
+	return post.WriteVTU(path, post.GridFromMesh(m), point, cell)
 }
 
 // FieldStates are the kept states of a run that get a field file, in
