@@ -33,9 +33,9 @@ import (
 // 8, so no value straddles two blocks.
 const blockSize = 1 << 15
 
-// compressionLevel is zlib's level for the field files: level 1
-// compresses the float64 fields nearly as well as the default level 6 at
-// a fraction of the time (BENCHMARKS.md, "Field files").
+// compressionLevel is zlib's level for the field files: on a demo state
+// level 1 gives 0.59 MB against the default level 6's 0.57 MB, in less
+// time (BENCHMARKS.md, "Field files").
 const compressionLevel = zlib.BestSpeed
 
 // appended is the appended data section being built: the compressed
