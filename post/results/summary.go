@@ -68,7 +68,7 @@ func NewSummary(path string, r *segment.Result) Summary {
 			ContactSeconds: r.Timing.Contact.Seconds(), FactorSeconds: r.Timing.Factorization.Seconds(),
 			SolveSeconds: r.Timing.Solve.Seconds(), KrylovSteps: r.Timing.KrylovSteps,
 			AnalysisSeconds: r.Timing.Analysis.Seconds(), PenaltyMPaPerMM: r.Segment.Penalty(),
-			PreloadSolves: r.Preload.Iterations, FieldStatesWritten: len(r.States)},
+			PreloadSolves: r.Preload.Iterations, FieldStatesWritten: len(FieldStates(r))},
 	}
 	if r.Failure != nil {
 		s.Failure = r.Failure.Error()
