@@ -113,7 +113,10 @@ DIR on a shared file system (or copy each shard's DIR/cases together before
 
 Exit codes: 0 every case ran to its end, 2 bad plan or arguments (nothing
 runs), 3 a case stopped or failed (its row says why; the others ran), the
-sweep was interrupted, or --collect found cases missing.
+sweep was interrupted, or --collect found cases missing. A shard exits 0
+once each of its cases has its record, stopped or failed ones included,
+so that the batch engine neither retries it nor holds back the collect
+job; --collect then exits 3 and lists them.
 
 %s
 
@@ -125,8 +128,8 @@ Flags:
 // sweepShard is the shard to run: --shard, else the batch engine's.
 func sweepShard(f sweepFlags, stderr io.Writer) (sweep.Shard, int) {
 	if f.shard != "" {
-		if f.collect || f.list {
-			fmt.Fprintln(stderr, "flangeseg sweep: --shard runs part of the cases; --collect and --list take none")
+		if f.collect {
+			fmt.Fprintln(stderr, "flangeseg sweep: --shard runs part of the cases; --collect takes every case")
 			return sweep.Shard{}, exitBadInput
 		}
 		s, err := sweep.ParseShard(f.shard)
@@ -196,11 +199,28 @@ func runSweepCases(p *plan.Plan, cases []plan.Case, f sweepFlags, shard sweep.Sh
 		return exitAnalysis
 	}
 	if !shard.Whole() {
-		t := sweep.Count(recs)
-		fmt.Fprintf(stdout, "%s: %s\nafter the last shard: flangeseg sweep %s -o %s --collect\n", shard, t, p.Path, f.dir)
-		return tallyExit(t)
+		return shardDone(stdout, p, f.dir, shard, recs)
 	}
 	return collectSweep(p, cases, f.dir, stdout, stderr)
+}
+
+// shardDone reports a shard's cases. A shard whose every case has its
+// record did its part and exits 0, stopped cases included: a batch engine
+// would otherwise retry it or hold back the collect job, and --collect
+// gives the sweep's status.
+func shardDone(stdout io.Writer, p *plan.Plan, dir string, shard sweep.Shard, recs []sweep.Record) int {
+	t := sweep.Count(recs)
+	fmt.Fprintf(stdout, "%s: %s\n", shard, t)
+	for _, r := range recs {
+		if r.Status != sweep.Finished {
+			fmt.Fprintf(stdout, "  case %d %s: %s: %s\n", r.Index, r.Name, r.Status, r.Reason)
+		}
+	}
+	fmt.Fprintf(stdout, "after the last shard: flangeseg sweep %s -o %s --collect\n", p.Path, dir)
+	if t.Missing > 0 {
+		return exitAnalysis
+	}
+	return exitOK
 }
 
 // caseLine reports one case on a line, where no progress bar shows.

@@ -58,6 +58,19 @@ values = [4, 5]
 	if code != exitAnalysis || !strings.Contains(out, "2 stopped early") {
 		t.Errorf("--collect: exit %d, want %d:\n%s", code, exitAnalysis, out)
 	}
+
+	// A shard whose cases all have their records did its part: exit 0,
+	// the stopped case named; the collect gives the sweep's status.
+	sharded := filepath.Join(t.TempDir(), "out")
+	for _, s := range []string{"1/2", "2/2"} {
+		code, out, errs := runCLI("sweep", plan, "-o", sharded, "--shard", s)
+		if code != exitOK || !strings.Contains(out, "shard "+s+": 0 finished, 1 stopped early") || !strings.Contains(out, "--collect") {
+			t.Errorf("--shard %s: exit %d, want %d:\n%s%s", s, code, exitOK, out, errs)
+		}
+	}
+	if code, out, _ := runCLI("sweep", plan, "-o", sharded, "--collect"); code != exitAnalysis || !strings.Contains(out, "2 stopped early") {
+		t.Errorf("--collect after the shards: exit %d, want %d:\n%s", code, exitAnalysis, out)
+	}
 }
 
 // A bad plan or bad flags exit 2 before anything runs; every plan error
