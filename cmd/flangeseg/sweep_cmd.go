@@ -22,6 +22,7 @@ type sweepFlags struct {
 	jobs, shards  int
 	shard         string
 	collect, list bool
+	allFields     bool
 }
 
 func runSweep(args []string, stdout, stderr io.Writer) int {
@@ -33,6 +34,7 @@ func runSweep(args []string, stdout, stderr io.Writer) int {
 	fs.StringVar(&f.shard, "shard", "", "run only part `I/N` of the cases: those whose index i has (i−1) mod N = I−1 (default: from SLURM_ARRAY_TASK_ID or JOB_COMPLETION_INDEX, else all)")
 	fs.IntVar(&f.shards, "shards", 0, "the number of shards `N` of a Kubernetes indexed Job (its completions), with JOB_COMPLETION_INDEX (default: FLANGESEG_SHARDS)")
 	fs.BoolVar(&f.collect, "collect", false, "run nothing: build sweep.csv, sweep.json, the plots and report.html from the case folders and list the cases missing")
+	fs.BoolVar(&f.allFields, "all-fields", false, "keep the fields (VTK) of every increment of each case, as run does (default: the preload and the last increment)")
 	fs.BoolVar(&f.list, "list", false, "run nothing: print the cases with their index, name and values")
 	fs.Usage = func() { sweepUsage(fs, stderr) }
 	if err := fs.Parse(reorderFlags(fs, args)); err != nil {
@@ -70,12 +72,14 @@ func runSweep(args []string, stdout, stderr io.Writer) int {
 }
 
 func sweepUsage(fs *flag.FlagSet, w io.Writer) {
-	fmt.Fprintf(w, `Usage: flangeseg sweep PLAN.toml [-o DIR] [--jobs K] [--shard I/N] [--collect] [--list]
+	fmt.Fprintf(w, `Usage: flangeseg sweep PLAN.toml [-o DIR] [--jobs K] [--shard I/N] [--shards N]
+                       [--collect] [--list] [--all-fields]
 
 Runs a parameter sweep: the cases of the plan file, each the plan's base
 model with some keys set, K side by side. Each case is an ordinary run in
 DIR/cases/NAME (model.toml, model.resolved.toml, history.csv, summary.json,
-plots, fields, report.html) finished by case.json, which holds the SHA-256
+plots, report.html, and the fields of the preload and the last increment
+unless --all-fields) finished by case.json, which holds the SHA-256
 of its resolved model: a case whose case.json matches is not run again, so
 an interrupted sweep, run again, does only what is missing. Then DIR gets
 sweep.csv and sweep.json (one row a case: index, name, varied values, every
@@ -177,7 +181,7 @@ func runSweepCases(p *plan.Plan, cases []plan.Case, f sweepFlags, shard sweep.Sh
 			n++
 		}
 	}
-	opt := sweep.Options{Dir: f.dir, Jobs: f.jobs, Shard: shard}
+	opt := sweep.Options{Dir: f.dir, Jobs: f.jobs, Shard: shard, AllFields: f.allFields}
 	bar := progressBar(stderr, total, "sweep")
 	if bar != nil {
 		opt.Progress = func(done, _ int) { _ = bar.Set(done) }

@@ -23,6 +23,11 @@ type Options struct {
 	Dir   string // the sweep's folder: cases go into Dir/cases/NAME
 	Jobs  int    // cases side by side; 0: runtime.GOMAXPROCS(0)
 	Shard Shard  // the part to run; the zero Shard runs every case
+	// AllFields keeps the fields of every increment, as a single run
+	// does; else a case keeps those of the preload and of the last
+	// increment (fields/ is most of a run directory: about 3 MB a state
+	// for the demo joint).
+	AllFields bool
 	// Progress receives the tension increments done and planned over all
 	// cases of this run (a case found done counts whole); it is called
 	// from one goroutine at a time.
@@ -72,7 +77,7 @@ func Run(ctx context.Context, cases []plan.Case, opt Options) ([]Record, error) 
 	for range min(jobs, len(todo)) {
 		wg.Go(func() {
 			for i := range work {
-				recs[i] = runCase(ctx, opt.Dir, mine[i], recs[i], func(n int) { t.step(i, n) })
+				recs[i] = runCase(ctx, opt, mine[i], recs[i], func(n int) { t.step(i, n) })
 				if recs[i].Status != Missing {
 					t.finish(i, recs[i], true)
 				}
@@ -135,9 +140,9 @@ func (t *tracker) report() {
 
 // runCase runs one case into its folder, from scratch, and writes its
 // record last. A case interrupted by ctx gets no record.
-func runCase(ctx context.Context, dir string, c plan.Case, rec Record, step func(int)) Record {
+func runCase(ctx context.Context, opt Options, c plan.Case, rec Record, step func(int)) Record {
 	start := time.Now()
-	folder := caseDir(dir, c)
+	folder := caseDir(opt.Dir, c)
 	fail := func(status string, code int, err error) Record {
 		rec.Status, rec.ExitStatus, rec.Reason = status, code, oneLine(err.Error())
 		rec.Seconds = seconds(time.Since(start))
@@ -164,7 +169,11 @@ func runCase(ctx context.Context, dir string, c plan.Case, rec Record, step func
 	if err != nil {
 		return fail(Failed, 2, fmt.Errorf("the model cannot be built: %w", err))
 	}
-	res, err := seg.Run(ctx, segment.Options{Progress: func(done, _ int) { step(done) }})
+	sopt := segment.Options{Progress: func(done, _ int) { step(done) }}
+	if !opt.AllFields {
+		sopt.Keep = func(int) bool { return false }
+	}
+	res, err := seg.Run(ctx, sopt)
 	if ctx.Err() != nil {
 		rec.Reason = "interrupted"
 		return rec

@@ -112,6 +112,12 @@ func TestSweepLifecycle(t *testing.T) {
 			}
 		}
 	}
+	// Without AllFields a case keeps the fields of the preload and the
+	// last increment only.
+	vtu, err := filepath.Glob(filepath.Join(whole, "cases", cases[0].Name, "fields", "*.vtu"))
+	if err != nil || len(vtu) != 2 {
+		t.Errorf("case %s keeps %d field states (%v), want 2", cases[0].Name, len(vtu), err)
+	}
 	collect(t, p, cases, whole)
 	checkTable(t, whole, p, cases)
 
