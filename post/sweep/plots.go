@@ -32,7 +32,7 @@ func figurePlots(p *plan.Plan, recs []Record) []FigurePlot {
 			continue
 		}
 		for _, f := range results.ComparedFigures() {
-			pl := post.Plot{Title: fmt.Sprintf("%s against %s", capital(f.Name), key), XLabel: key, YLabel: unitLabel(f)}
+			pl := post.Plot{Title: capital(f.Name), XLabel: key, YLabel: unitLabel(f)}
 			pl.Series = figureSeries(keys, key, f, recs)
 			if len(pl.Series) > 0 {
 				out = append(out, FigurePlot{Stem: f.Column + "__" + fileName(key), Plot: pl})
