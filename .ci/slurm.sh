@@ -12,6 +12,7 @@
 # it is the last column of sweep.csv and the "time_s" lines of sweep.json,
 # which are masked; report.html (the sweep page) must be equal as it is.
 set -euo pipefail
+start=$(date +%s)
 cd "$(dirname "$0")/.."
 repo=$PWD
 plan=testdata/sweep/array_plan.toml
@@ -145,7 +146,7 @@ echo "== local run"
 SECONDS=0
 "$bin" sweep "$plan" -o "$work/local" --jobs 2 >"$work/local.txt" 2>&1 || { cat "$work/local.txt"; fail "the local run failed"; }
 tail -n 2 "$work/local.txt"
-echo "local run: $SECONDS s"
+echo "local run: $SECONDS s wall"
 
 echo "== 4-task array job"
 job=$(submit "$work/array" --wait) || fail "the array job failed"
@@ -183,3 +184,4 @@ echo "resumed job $job ran the $((cases - before)) missing cases; the tables equ
 stop_daemons
 trap - EXIT
 rm -rf "$work"
+echo "slurm check: $(($(date +%s) - start)) s wall"
