@@ -75,6 +75,7 @@ SelectType=select/cons_tres
 SelectTypeParameters=CR_CPU
 ReturnToService=2
 KillWait=5
+SchedulerParameters=bf_interval=1
 NodeName=ci NodeHostname=$(hostname) NodeAddr=127.0.0.1 CPUs=$(nproc) State=UNKNOWN
 PartitionName=ci Nodes=ci Default=YES MaxTime=INFINITE State=UP
 EOF
@@ -120,19 +121,29 @@ grep -q '^#SBATCH --array' "$script" || fail "no sbatch script found in README.m
 echo "$collect" | grep -q -- '--collect' || fail "no collect job found in README.md"
 
 mkdir -p "$work/run"
-# submit OUT [sbatch flags…]: the README's array job, one CPU a task (the
-# CI machine has two), then its collect job; both waited for.
+# submit OUT: the README's array job, one CPU a task (the CI machine has
+# two); prints the job id.
 submit() {
-  local out=$1
-  shift
-  (cd "$work/run" && PLAN=$repo/$plan OUT=$out sbatch --parsable --cpus-per-task=1 \
-    --output="$work/run/%x-%A_%a.log" "$@" "$script")
+  (cd "$work/run" && PLAN=$repo/$plan OUT=$1 sbatch --parsable --cpus-per-task=1 \
+    --output="$work/run/%x-%A_%a.log" "$script")
 }
+# finish JOB: wait for the job (polling: sbatch --wait polls at long
+# intervals) and fail unless every task of it exited 0.
+finish() {
+  for _ in $(seq 1 3000); do
+    [ -z "$(squeue -h -j "$1" 2>/dev/null)" ] && break
+    sleep 0.1
+  done
+  local states
+  states=$(scontrol -o show job "$1" | grep -o 'JobState=[A-Z]* .*ExitCode=[0-9:]*' | sed 's/JobState=\([A-Z]*\).*ExitCode=\([0-9:]*\)/\1 \2/' | sort -u)
+  [ "$states" = "COMPLETED 0:0" ] || fail "job $1 ended: $states"
+}
+# collect_job OUT JOB: the README's collect job after JOB, waited for.
 collect_job() {
-  local out=$1 jobid=$2
-  local wait="sbatch --wait --output=$work/run/collect-%j.log "
-  (cd "$work/run" && PLAN=$repo/$plan OUT=$out jobid=$jobid bash -c "${collect/sbatch /$wait}") ||
-    fail "the collect job of $out failed"
+  local id
+  id=$(cd "$work/run" && PLAN=$repo/$plan OUT=$1 jobid=$2 bash -c "${collect/sbatch /sbatch --parsable --output=$work/run/collect-%j.log }") ||
+    fail "the collect job of $1 was not submitted"
+  finish "$id"
 }
 same() { # same DIR_A DIR_B: the tables equal but for time_s
   local a=$1 b=$2
@@ -149,7 +160,8 @@ tail -n 2 "$work/local.txt"
 echo "local run: $SECONDS s wall"
 
 echo "== 4-task array job"
-job=$(submit "$work/array" --wait) || fail "the array job failed"
+job=$(submit "$work/array")
+finish "$job"
 collect_job "$work/array" "$job"
 same "$work/local" "$work/array"
 echo "array job $job: the collected tables equal the local run's (time_s masked)"
@@ -175,7 +187,8 @@ done
 before=$(find "$work/resumed/cases" -name case.json | wc -l)
 echo "cancelled job $job with $before of $cases cases done"
 [ "$before" -lt "$cases" ] || fail "every case was done before the cancel: nothing to resume"
-job=$(submit "$work/resumed" --wait) || fail "the resubmitted array job failed"
+job=$(submit "$work/resumed")
+finish "$job"
 again=$(cat "$work"/run/*-"$job"_*.log | grep -c 'already done' || true)
 [ "$again" -eq "$before" ] || fail "the resubmitted job found $again cases done, want $before"
 collect_job "$work/resumed" "$job"
