@@ -95,6 +95,7 @@ reported at once, before anything runs):
   combine = "grid"            # "grid" (default): every combination, the
                               # first key varying slowest; "zip": the i-th
                               # values of every key together
+  set     = { "mesh.size" = 16 }   # optional: keys set in every case
   [[vary]]                    # any key of the model file, arrays indexed
   key    = "contact.recess"   # from 0: "contact.zones[1].from"
   values = [0.1, 0.2, 0.3]
