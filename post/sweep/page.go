@@ -7,6 +7,7 @@ import (
 	"os"
 	"path/filepath"
 	"strconv"
+	"strings"
 
 	"flangeseg/post"
 	"flangeseg/post/report"
@@ -61,7 +62,7 @@ func page(p *plan.Plan, recs []Record, figs, curves []FigurePlot) report.Sweep {
 	}
 	s.Notes = []string{
 		"Each case is an ordinary run in cases/NAME beside this page: its model file (model.toml), its resolved model, history.csv, summary.json, plots, fields and its own calculation note (report.html).",
-		"sweep.csv and sweep.json beside this page hold every joint figure of each case's summary; this page shows those that compare runs. A blank value of a varied key is the base model's value.",
+		"sweep.csv and sweep.json beside this page hold every joint figure of each case's summary; the table above shows the main ones, and the failure mechanism only where a case assesses one (elastic runs do not). A blank value of a varied key is the base model's value; an opening load of 0 means the shell-side corner is open after the preload already.",
 		"The plots of this page are also in plots/ as SVG and PNG.",
 	}
 	return s
@@ -112,11 +113,15 @@ func casesTable(p *plan.Plan, recs []Record) report.Table {
 	for _, k := range keys {
 		t.Columns = append(t.Columns, report.Column{Heading: k})
 	}
-	figs := results.ComparedFigures()
+	figs := pageFigures()
 	for _, f := range figs {
 		t.Columns = append(t.Columns, report.Column{Heading: f.Name, Unit: f.Unit})
 	}
-	t.Columns = append(t.Columns, report.Column{Heading: "failure mechanism"}, report.Column{Heading: "status"})
+	mechanisms := assessed(recs)
+	if mechanisms {
+		t.Columns = append(t.Columns, report.Column{Heading: "failure mechanism"})
+	}
+	t.Columns = append(t.Columns, report.Column{Heading: "status"})
 	for _, r := range recs {
 		row := []report.Cell{report.Text(strconv.Itoa(r.Index)), report.Text(r.Name)}
 		for _, k := range keys {
@@ -133,14 +138,43 @@ func casesTable(p *plan.Plan, recs []Record) report.Table {
 				row = append(row, report.Missing(f.Unit))
 			}
 		}
-		mech := ""
-		if r.Summary != nil {
-			mech = r.Summary.Joint.FailureLocation
+		if mechanisms {
+			mech := ""
+			if r.Summary != nil {
+				mech = r.Summary.Joint.FailureLocation
+			}
+			row = append(row, report.Text(mech))
 		}
-		row = append(row, report.Text(mech), report.Text(r.Status))
+		row = append(row, report.Text(r.Status))
 		t.Rows = append(t.Rows, row)
 	}
 	return t
+}
+
+// pageFigures are the joint figures of the page's table, which has to fit
+// a page: the compared figures without the joint-alone stiffness, the
+// tangent load factor and the end displacement (sweep.csv has them all).
+func pageFigures() []results.ComparedFigure {
+	var out []results.ComparedFigure
+	for _, f := range results.ComparedFigures() {
+		switch f.Column {
+		case "joint_stiffness_secant_to_reference_kN_per_mm", "load_factor_tangent_at_zero", "displacement_at_end_mm":
+			continue
+		}
+		out = append(out, f)
+	}
+	return out
+}
+
+// assessed reports whether any case names a failure mechanism (elastic
+// runs all say "not assessed").
+func assessed(recs []Record) bool {
+	for _, r := range recs {
+		if r.Summary != nil && !strings.HasPrefix(r.Summary.Joint.FailureLocation, "not assessed") {
+			return true
+		}
+	}
+	return false
 }
 
 func notDone(recs []Record) report.Table {
