@@ -171,9 +171,10 @@ type PreloadOptions struct {
 	MaxCuts int
 	// Gaps, if set, measures the gaps (mm, positive open) of the contact
 	// points that the preload may close, in the same order at every call
-	// (+Inf where a point faces nothing). While the faces close, a step is
-	// then kept from passing the strain at which the first open point
-	// would touch, extrapolated from the last two states (touchLimit).
+	// (+Inf where a point faces nothing). While the faces close, a step
+	// that fails is then cut back to the strain at which the first open
+	// point would touch, extrapolated from the last two states
+	// (touchLimit), where that is nearer than half the step.
 	Gaps func() []float64
 	// Slope, if negative, is the bolt force's slope over the strain from
 	// an earlier Preload of the same bolt (PreloadResult.Slope): the first
@@ -214,7 +215,7 @@ func (s *Solver) Preload(region string, target float64, force func() (float64, e
 	}
 	opt.defaults()
 	res := PreloadResult{Eigenstrain: s.m.Eigenstrain(region)[1], Slope: math.Min(opt.Slope, 0)}
-	path := eigenPath{s: s, region: region, maxCuts: opt.MaxCuts, res: &res, force: force}
+	path := eigenPath{s: s, region: region, maxCuts: opt.MaxCuts, res: &res, force: force, touch: math.NaN()}
 	f := 0.0
 	if res.Eigenstrain != 0 {
 		var err error
@@ -257,8 +258,9 @@ func (s *Solver) Preload(region string, target float64, force func() (float64, e
 		if !math.IsInf(lo, 0) && !math.IsInf(hi, 0) && !(next < lo && next > hi) {
 			next = (lo + hi) / 2 // the secant left the bracket
 		}
+		path.touch = math.NaN()
 		if have0 && g0 != nil {
-			next = touchLimit(e0, e1, next, g0, g1)
+			path.touch = touchLimit(e0, e1, next, g0, g1)
 		}
 		if err := path.moveTo(next); err != nil {
 			return res, err
@@ -274,14 +276,17 @@ func (s *Solver) Preload(region string, target float64, force func() (float64, e
 	return res, fmt.Errorf("fem: preload: %g N not reached within 60 steps (last %g N)", target, res.Force)
 }
 
-// touchLimit keeps a step of the eigenstrain from e1 to next from passing
-// the strain at which the first open contact point touches, each point's
-// gap extrapolated linearly from its gaps g0 at e0 and g1 at e1: a step
-// far past first contact starts the solve from deep penetration, and the
-// active-set search that follows cycles (a slender flange's taper). The
-// step goes a twentieth past the predicted touch, so that the contact is
-// made. Points already touching (gap ≤ touchGap) and points not closing
-// set no limit.
+// touchLimit is where a step of the eigenstrain from e1 to next would
+// pass the strain at which the first open contact point touches, each
+// point's gap extrapolated linearly from its gaps g0 at e0 and g1 at e1
+// (next if it passes none): a step far past a new contact starts the
+// solve from deep penetration, and the active-set search that follows
+// cycles (a slender flange's taper), so a failing step is cut back to it
+// (eigenPath.moveTo). It lies a twentieth past the predicted touch, so
+// that the contact is made. Points already touching (gap ≤ touchGap) and
+// points not closing set no limit. Steps that converge are not limited:
+// creeping through a closing taper in such small steps changed the
+// friction locked in enough to let whole washers slip when let go.
 func touchLimit(e0, e1, next float64, g0, g1 []float64) float64 {
 	if len(g0) != len(g1) || e1 == e0 {
 		return next
@@ -320,7 +325,7 @@ func (s *Solver) Shorten(region string, shortening, sliceLength float64, steps i
 	if steps < 1 {
 		steps = 4
 	}
-	path := eigenPath{s: s, region: region, maxCuts: 6, res: &res, force: force}
+	path := eigenPath{s: s, region: region, maxCuts: 6, res: &res, force: force, touch: math.NaN()}
 	from, to := res.Eigenstrain, -shortening/sliceLength
 	for i := 1; i <= steps; i++ {
 		if err := path.moveTo(from + (to-from)*float64(i)/float64(steps)); err != nil {
@@ -341,6 +346,10 @@ type eigenPath struct {
 	// eigenstrain change between the two, for the predictor.
 	prev []float64
 	step float64
+	// touch, if not NaN, is where the next point of a closing face is
+	// expected to touch (touchLimit): a first try of a move that fails is
+	// cut back to it rather than halved, where it lies nearer.
+	touch float64
 }
 
 // moveTo brings the eigenstrain to e through converged states, halving a
@@ -369,6 +378,13 @@ func (p *eigenPath) moveTo(e float64) error {
 			}
 			if !IsNotConverged(err) || cuts == p.maxCuts {
 				return fmt.Errorf("preload step from slice strain %.4g to %.4g: %w", at, at+d, err)
+			}
+			if t := p.touch; cuts == 0 && (t-at)*d > 0 && math.Abs(t-at) < math.Abs(d)/2 {
+				// A step past the touch of a closing face: its solve
+				// started from deep penetration. Cut back to the touch.
+				e, p.touch = t, math.NaN()
+				s.log(fmt.Sprintf("  not converged (%v); step cut back to where the next point of the face touches", err))
+				continue
 			}
 			cuts++
 			s.log(fmt.Sprintf("  not converged (%v); step halved", err))

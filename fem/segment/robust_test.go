@@ -70,7 +70,7 @@ type halvingCount struct {
 
 func (h *halvingCount) line(line string) {
 	switch {
-	case strings.Contains(line, "step halved"):
+	case strings.Contains(line, "step halved") || strings.Contains(line, "step cut back"):
 		h.all++
 		h.run++
 		h.most = max(h.most, h.run)
