@@ -110,6 +110,53 @@ func TestPreloadBar(t *testing.T) {
 	}
 }
 
+// A second Preload of the same bar to a target 3 % higher, given the first
+// one's secant slope, takes one solve: the bar is linear, so the root
+// along the slope is exact (without it, the first step is a quarter of
+// the estimate, far past). The slope is the series springs' stiffness
+// over the strain, dF/dε = −E·A·l_slice/L (statics).
+func TestPreloadCorrectionAlongSlope(t *testing.T) {
+	msh := stackedBar(t)
+	m, _ := barModel(t, msh)
+	s, err := NewSolver(m, nil, NewtonOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var above, cut []int
+	for e, el := range msh.Elements {
+		if msh.Nodes[el.Nodes[0]].Z >= 55-1e-9 && msh.Nodes[el.Nodes[2]].Z >= 55-1e-9 {
+			above = append(above, e)
+		}
+	}
+	for n, p := range msh.Nodes {
+		if math.Abs(p.Z-55) < 1e-9 {
+			cut = append(cut, n)
+		}
+	}
+	force := func() (float64, error) {
+		f, _, _, err := s.SectionForce(above, cut, 5)
+		return f, err
+	}
+	first, err := s.Preload("slice", 12000, force, PreloadOptions{Tolerance: 0.005})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := -210000.0 * 10 * 1 * 10 / 100
+	if math.Abs(first.Slope-want) > 1e-6*math.Abs(want) {
+		t.Fatalf("slope %g N per unit strain, want %g", first.Slope, want)
+	}
+	second, err := s.Preload("slice", 12360, force, PreloadOptions{Tolerance: 0.001, Estimate: first.Eigenstrain, Slope: first.Slope})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if second.Iterations != 1 {
+		t.Errorf("the correction took %d solves, want 1", second.Iterations)
+	}
+	if math.Abs(second.Force-12360) > 0.001*12360 {
+		t.Errorf("preload %g N, want 12360 ± 0.1 %%", second.Force)
+	}
+}
+
 // Ramping a rigid-edge pull through the Newton solver gives the same
 // response as the linear solve (a linear model converges in one step).
 func TestRampMatchesLinear(t *testing.T) {
@@ -246,6 +293,13 @@ func TestRampBudget(t *testing.T) {
 			t.Errorf("budget of one: increment %d is %.3g of the ramp, below a quarter: a step that small is not halved for the budget", inc.Index, size)
 		}
 		from = inc.Fraction
+	}
+	// Each of those increments took more than half the budget, so the
+	// step is not grown after it, and none after the first is halved.
+	for _, inc := range steps[1:] {
+		if inc.Cuts > 0 {
+			t.Errorf("budget of one: increment %d was halved %d times: the step grew after an increment that took more than half the budget", inc.Index, inc.Cuts)
+		}
 	}
 }
 

@@ -132,7 +132,12 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 		}
 		// A step that went through at once may grow back towards the
 		// nominal one; after a cut, one success at the cut size first.
-		if cuts == 0 {
+		// Under a budget, a step that needed more than half of it
+		// is not grown: the contact state is still changing fast, and a
+		// doubled step would be halved again (iteration-count step
+		// control, Crisfield, Non-linear Finite Element Analysis of Solids
+		// and Structures, vol. 1, 1991, §9.5).
+		if cuts == 0 && (opt.Budget == 0 || 2*its <= opt.Budget) {
 			step = math.Min(1.0/float64(opt.Increments), 2*step)
 		}
 		cuts = 0
@@ -145,6 +150,11 @@ type PreloadResult struct {
 	Eigenstrain float64 // zz strain locked into the slice
 	Force       float64 // bolt force reached, N
 	Iterations  int     // equilibrium solves used
+	// Slope is the last secant slope of the bolt force over the strain
+	// (N per unit strain, negative: a shortening raises the force), 0
+	// before two states are known; a later Preload of the same bolt
+	// takes it as PreloadOptions.Slope.
+	Slope float64
 }
 
 // PreloadOptions tune the preload stage.
@@ -159,6 +169,18 @@ type PreloadOptions struct {
 	Steps int
 	// MaxCuts bounds the halvings of a failing step in a row (default 6).
 	MaxCuts int
+	// Gaps, if set, measures the gaps (mm, positive open) of the contact
+	// points that the preload may close, in the same order at every call
+	// (+Inf where a point faces nothing). While the faces close, a step
+	// that fails is then cut back to the strain at which the first open
+	// point would touch, extrapolated from the last two states
+	// (touchLimit), where that is nearer than half the step.
+	Gaps func() []float64
+	// Slope, if negative, is the bolt force's slope over the strain from
+	// an earlier Preload of the same bolt (PreloadResult.Slope): the first
+	// step is then the root along it rather than a 1/Steps share of the
+	// estimate, so a correction of a few per cent is a small step.
+	Slope float64
 }
 
 func (o *PreloadOptions) defaults() {
@@ -192,8 +214,8 @@ func (s *Solver) Preload(region string, target float64, force func() (float64, e
 		return PreloadResult{}, fmt.Errorf("fem: preload target %g N: must be positive", target)
 	}
 	opt.defaults()
-	res := PreloadResult{Eigenstrain: s.m.Eigenstrain(region)[1]}
-	path := eigenPath{s: s, region: region, maxCuts: opt.MaxCuts, res: &res, force: force}
+	res := PreloadResult{Eigenstrain: s.m.Eigenstrain(region)[1], Slope: math.Min(opt.Slope, 0)}
+	path := eigenPath{s: s, region: region, maxCuts: opt.MaxCuts, res: &res, force: force, touch: math.NaN()}
 	f := 0.0
 	if res.Eigenstrain != 0 {
 		var err error
@@ -205,7 +227,11 @@ func (s *Solver) Preload(region string, target float64, force func() (float64, e
 	limit := math.Abs(opt.Estimate) / float64(opt.Steps)
 	lo, hi := math.Inf(1), math.Inf(-1) // strains known to give too little / too much force (strains are negative)
 	var e0, f0 float64
+	var g0, g1 []float64
 	have0 := false
+	if opt.Gaps != nil {
+		g1 = opt.Gaps()
+	}
 	for solve := 0; solve < 60; solve++ {
 		e1, f1 := res.Eigenstrain, res.Force
 		if math.Abs(f1-target) <= opt.Tolerance*target {
@@ -220,14 +246,21 @@ func (s *Solver) Preload(region string, target float64, force func() (float64, e
 		if f1 > target {
 			next = e1 + limit
 		}
+		slope := opt.Slope
 		if have0 && f1 != f0 {
-			if slope := (f1 - f0) / (e1 - e0); slope < 0 {
-				want := e1 + (target-f1)/slope
-				next = e1 + math.Copysign(math.Min(math.Abs(want-e1), limit), want-e1)
-			}
+			slope = (f1 - f0) / (e1 - e0)
+			res.Slope = slope
+		}
+		if slope < 0 {
+			want := e1 + (target-f1)/slope
+			next = e1 + math.Copysign(math.Min(math.Abs(want-e1), limit), want-e1)
 		}
 		if !math.IsInf(lo, 0) && !math.IsInf(hi, 0) && !(next < lo && next > hi) {
 			next = (lo + hi) / 2 // the secant left the bracket
+		}
+		path.touch = math.NaN()
+		if have0 && g0 != nil {
+			path.touch = touchLimit(e0, e1, next, g0, g1)
 		}
 		if err := path.moveTo(next); err != nil {
 			return res, err
@@ -236,9 +269,49 @@ func (s *Solver) Preload(region string, target float64, force func() (float64, e
 			limit *= 2 // the force barely responds: a gap is still closing
 		}
 		e0, f0, have0 = e1, f1, true
+		if opt.Gaps != nil {
+			g0, g1 = g1, opt.Gaps()
+		}
 	}
 	return res, fmt.Errorf("fem: preload: %g N not reached within 60 steps (last %g N)", target, res.Force)
 }
+
+// touchLimit is where a step of the eigenstrain from e1 to next would
+// pass the strain at which the first open contact point touches, each
+// point's gap extrapolated linearly from its gaps g0 at e0 and g1 at e1
+// (next if it passes none): a step far past a new contact starts the
+// solve from deep penetration, and the active-set search that follows
+// cycles (a slender flange's taper), so a failing step is cut back to it
+// (eigenPath.moveTo). It lies a twentieth past the predicted touch, so
+// that the contact is made. Points already touching (gap ≤ touchGap) and
+// points not closing set no limit. Steps that converge are not limited:
+// creeping through a closing taper in such small steps changed the
+// friction locked in enough to let whole washers slip when let go.
+func touchLimit(e0, e1, next float64, g0, g1 []float64) float64 {
+	if len(g0) != len(g1) || e1 == e0 {
+		return next
+	}
+	best := next
+	for i := range g1 {
+		a, b := g0[i], g1[i]
+		if math.IsInf(a, 0) || math.IsInf(b, 0) || b <= touchGap || b >= a {
+			continue
+		}
+		touch := e1 + b*(e1-e0)/(a-b) // gap a at e0, b at e1: zero here
+		if (touch-e1)*(next-e1) <= 0 {
+			continue
+		}
+		touch = e1 + 1.05*(touch-e1)
+		if math.Abs(touch-e1) < math.Abs(best-e1) {
+			best = touch
+		}
+	}
+	return best
+}
+
+// touchGap is the gap (mm) below which a contact point counts as touching
+// for touchLimit.
+const touchGap = 1e-3
 
 // Shorten locks a prescribed shortening (mm) over a slice of length
 // sliceLength into region as an eigenstrain, applied in steps equal
@@ -252,7 +325,7 @@ func (s *Solver) Shorten(region string, shortening, sliceLength float64, steps i
 	if steps < 1 {
 		steps = 4
 	}
-	path := eigenPath{s: s, region: region, maxCuts: 6, res: &res, force: force}
+	path := eigenPath{s: s, region: region, maxCuts: 6, res: &res, force: force, touch: math.NaN()}
 	from, to := res.Eigenstrain, -shortening/sliceLength
 	for i := 1; i <= steps; i++ {
 		if err := path.moveTo(from + (to-from)*float64(i)/float64(steps)); err != nil {
@@ -273,6 +346,10 @@ type eigenPath struct {
 	// eigenstrain change between the two, for the predictor.
 	prev []float64
 	step float64
+	// touch, if not NaN, is where the next point of a closing face is
+	// expected to touch (touchLimit): a first try of a move that fails is
+	// cut back to it rather than halved, where it lies nearer.
+	touch float64
 }
 
 // moveTo brings the eigenstrain to e through converged states, halving a
@@ -301,6 +378,13 @@ func (p *eigenPath) moveTo(e float64) error {
 			}
 			if !IsNotConverged(err) || cuts == p.maxCuts {
 				return fmt.Errorf("preload step from slice strain %.4g to %.4g: %w", at, at+d, err)
+			}
+			if t := p.touch; cuts == 0 && (t-at)*d > 0 && math.Abs(t-at) < math.Abs(d)/2 {
+				// A step past the touch of a closing face: its solve
+				// started from deep penetration. Cut back to the touch.
+				e, p.touch = t, math.NaN()
+				s.log(fmt.Sprintf("  not converged (%v); step cut back to where the next point of the face touches", err))
+				continue
 			}
 			cuts++
 			s.log(fmt.Sprintf("  not converged (%v); step halved", err))

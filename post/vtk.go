@@ -61,8 +61,10 @@ func RegionField(m *mesh.Mesh) Field {
 	return Field{Name: "region", Components: 1, Values: v}
 }
 
-// WriteVTU writes a VTK XML UnstructuredGrid file (.vtu), ASCII, with the
-// grid's points as (x, z, 0), the given point data and cell data.
+// WriteVTU writes a VTK XML UnstructuredGrid file (.vtu) with the grid's
+// points as (x, z, 0), the given point data and cell data: every array in
+// binary, zlib-compressed, in the file's appended data section (see
+// encodeVTU for the layout).
 func WriteVTU(path string, g Grid, pointData, cellData []Field) error {
 	if err := validate(g, pointData, cellData); err != nil {
 		return fmt.Errorf("post: write %s: %w", path, err)
@@ -146,7 +148,7 @@ func validateFields(where string, fields []Field, count int) error {
 
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
-// encoder writes numbers into w through one scratch buffer; the first
+// encoder writes text into w through one scratch buffer; the first
 // error sticks and later writes do nothing.
 type encoder struct {
 	w   io.Writer
@@ -169,89 +171,12 @@ func (e *encoder) str(s string) {
 }
 
 func (e *encoder) float(v float64) { e.buf = strconv.AppendFloat(e.buf, v, 'g', -1, 64) }
-func (e *encoder) int(v int)       { e.buf = strconv.AppendInt(e.buf, int64(v), 10) }
 
 // attr escapes s for use inside a double-quoted XML attribute.
 func attr(s string) string {
 	var b strings.Builder
 	xml.EscapeText(&b, []byte(s)) // a strings.Builder never fails
 	return b.String()
-}
-
-func encodeVTU(w io.Writer, g Grid, pointData, cellData []Field) error {
-	typ, _ := cellType(g.Kind)
-	e := &encoder{w: w, buf: make([]byte, 0, 1<<16)}
-	e.str(`<?xml version="1.0"?>` + "\n")
-	e.str(`<VTKFile type="UnstructuredGrid" version="1.0" byte_order="LittleEndian" header_type="UInt64">` + "\n")
-	e.str("  <UnstructuredGrid>\n")
-	e.str(fmt.Sprintf("    <Piece NumberOfPoints=\"%d\" NumberOfCells=\"%d\">\n", len(g.Points), len(g.Cells)))
-	e.dataSection("PointData", pointData)
-	e.dataSection("CellData", cellData)
-	e.str("      <Points>\n")
-	e.str(`        <DataArray type="Float64" NumberOfComponents="3" format="ascii">` + "\n")
-	for _, p := range g.Points {
-		e.str("          ")
-		e.float(p.X)
-		e.str(" ")
-		e.float(p.Z)
-		e.str(" 0\n")
-	}
-	e.str("        </DataArray>\n      </Points>\n      <Cells>\n")
-	e.str(`        <DataArray type="Int64" Name="connectivity" format="ascii">` + "\n")
-	for _, c := range g.Cells {
-		e.str("         ")
-		for _, n := range c {
-			e.str(" ")
-			e.int(n)
-		}
-		e.str("\n")
-	}
-	e.str("        </DataArray>\n")
-	e.str(`        <DataArray type="Int64" Name="offsets" format="ascii">` + "\n")
-	for i := range g.Cells {
-		e.str("          ")
-		e.int((i + 1) * int(g.Kind))
-		e.str("\n")
-	}
-	e.str("        </DataArray>\n")
-	e.str(`        <DataArray type="UInt8" Name="types" format="ascii">` + "\n")
-	for range g.Cells {
-		e.str("          ")
-		e.int(typ)
-		e.str("\n")
-	}
-	e.str("        </DataArray>\n      </Cells>\n    </Piece>\n  </UnstructuredGrid>\n</VTKFile>\n")
-	e.flush()
-	return e.err
-}
-
-// dataSection writes one PointData or CellData element.
-func (e *encoder) dataSection(tag string, fields []Field) {
-	if len(fields) == 0 {
-		e.str("      <" + tag + "/>\n")
-		return
-	}
-	e.str("      <" + tag + ">\n")
-	for _, f := range fields {
-		out := f.Components
-		if out == 2 {
-			out = 3
-		}
-		e.str(fmt.Sprintf("        <DataArray type=\"Float64\" Name=\"%s\" NumberOfComponents=\"%d\" format=\"ascii\">\n", attr(f.Name), out))
-		for k := 0; k < len(f.Values); k += f.Components {
-			e.str("         ")
-			for _, v := range f.Values[k : k+f.Components] {
-				e.str(" ")
-				e.float(v)
-			}
-			if f.Components == 2 {
-				e.str(" 0")
-			}
-			e.str("\n")
-		}
-		e.str("        </DataArray>\n")
-	}
-	e.str("      </" + tag + ">\n")
 }
 
 // SeriesEntry is one state of a series: its time and its file, relative to

@@ -2,13 +2,15 @@ package post
 
 import (
 	"bytes"
+	"compress/zlib"
+	"encoding/binary"
 	"encoding/xml"
 	"errors"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"reflect"
-	"strconv"
 	"strings"
 	"testing"
 
@@ -20,7 +22,10 @@ type vtkFile struct {
 	Type      string `xml:"type,attr"`
 	Version   string `xml:"version,attr"`
 	ByteOrder string `xml:"byte_order,attr"`
-	Piece     struct {
+	// HeaderType and Compressor say how the appended arrays are stored.
+	HeaderType string `xml:"header_type,attr"`
+	Compressor string `xml:"compressor,attr"`
+	Piece      struct {
 		NumberOfPoints int         `xml:"NumberOfPoints,attr"`
 		NumberOfCells  int         `xml:"NumberOfCells,attr"`
 		PointData      []dataArray `xml:"PointData>DataArray"`
@@ -35,20 +40,13 @@ type dataArray struct {
 	Name       string `xml:"Name,attr"`
 	Components int    `xml:"NumberOfComponents,attr"`
 	Format     string `xml:"format,attr"`
-	Text       string `xml:",chardata"`
+	Offset     int    `xml:"offset,attr"`
+	values     []float64
 }
 
 func (d dataArray) numbers(t *testing.T) []float64 {
 	t.Helper()
-	var out []float64
-	for _, f := range strings.Fields(d.Text) {
-		v, err := strconv.ParseFloat(f, 64)
-		if err != nil {
-			t.Fatalf("array %q: %v", d.Name, err)
-		}
-		out = append(out, v)
-	}
-	return out
+	return d.values
 }
 
 func floats(ints ...int) []float64 {
@@ -59,17 +57,102 @@ func floats(ints ...int) []float64 {
 	return out
 }
 
+// readVTU reads a .vtu file as encodeVTU writes it, decoding every array
+// from the appended data section by the documented header.
 func readVTU(t *testing.T, path string) vtkFile {
 	t.Helper()
 	b, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)
 	}
-	var v vtkFile
-	if err := xml.Unmarshal(b, &v); err != nil {
-		t.Fatalf("%s does not parse: %v", path, err)
+	return decodeVTU(t, b)
+}
+
+func decodeVTU(t *testing.T, b []byte) vtkFile {
+	t.Helper()
+	const open = "<AppendedData encoding=\"raw\">\n   _"
+	i := bytes.Index(b, []byte(open))
+	j := bytes.LastIndex(b, []byte("\n  </AppendedData>\n</VTKFile>\n"))
+	if i < 0 || j < i+len(open) {
+		t.Fatal("no appended data section")
 	}
+	data := b[i+len(open) : j]
+	var v vtkFile
+	if err := xml.Unmarshal(append(append([]byte(nil), b[:i]...), "</VTKFile>"...), &v); err != nil {
+		t.Fatalf("the XML part does not parse: %v", err)
+	}
+	if v.Compressor != "vtkZLibDataCompressor" || v.HeaderType != "UInt64" {
+		t.Fatalf("compressor %q, header type %q", v.Compressor, v.HeaderType)
+	}
+	end := 0
+	points := []dataArray{v.Piece.Points}
+	for _, arrays := range [][]dataArray{v.Piece.PointData, v.Piece.CellData, points, v.Piece.Cells} {
+		for k := range arrays {
+			if arrays[k].Format != "appended" || arrays[k].Offset != end {
+				t.Fatalf("array %q: format %q at offset %d, want appended at %d (no gaps)", arrays[k].Name, arrays[k].Format, arrays[k].Offset, end)
+			}
+			var raw []byte
+			raw, end = inflateArray(t, data, end)
+			arrays[k].values = rawValues(t, arrays[k].Type, raw)
+		}
+	}
+	if end != len(data) {
+		t.Fatalf("%d bytes after the last array", len(data)-end)
+	}
+	v.Piece.Points = points[0]
 	return v
+}
+
+// inflateArray decodes the compressed array at offset: its header
+// [#blocks][#u-size][#p-size][#c-size-1 …] and its blocks.
+func inflateArray(t *testing.T, data []byte, offset int) (raw []byte, end int) {
+	t.Helper()
+	word := func(k int) int { return int(binary.LittleEndian.Uint64(data[offset+8*k:])) }
+	n, usize, psize := word(0), word(1), word(2)
+	pos := offset + 8*(3+n)
+	for k := range n {
+		c := word(3 + k)
+		zr, err := zlib.NewReader(bytes.NewReader(data[pos : pos+c]))
+		if err != nil {
+			t.Fatal(err)
+		}
+		block, err := io.ReadAll(zr)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := usize
+		if k == n-1 && psize != 0 {
+			want = psize
+		}
+		if len(block) != want {
+			t.Fatalf("block %d of %d: %d bytes, header says %d", k, n, len(block), want)
+		}
+		raw = append(raw, block...)
+		pos += c
+	}
+	return raw, pos
+}
+
+func rawValues(t *testing.T, typ string, raw []byte) []float64 {
+	t.Helper()
+	var out []float64
+	switch typ {
+	case "Float64":
+		for k := 0; k < len(raw); k += 8 {
+			out = append(out, math.Float64frombits(binary.LittleEndian.Uint64(raw[k:])))
+		}
+	case "Int64":
+		for k := 0; k < len(raw); k += 8 {
+			out = append(out, float64(int64(binary.LittleEndian.Uint64(raw[k:]))))
+		}
+	case "UInt8":
+		for _, c := range raw {
+			out = append(out, float64(c))
+		}
+	default:
+		t.Fatalf("type %q", typ)
+	}
+	return out
 }
 
 func TestWriteVTU(t *testing.T) {
@@ -146,7 +229,7 @@ func checkArray(t *testing.T, arrays []dataArray, i int, name string, comps int,
 		t.Fatalf("array %q missing", name)
 	}
 	a := arrays[i]
-	if a.Name != name || a.Components != comps || a.Type != "Float64" || a.Format != "ascii" {
+	if a.Name != name || a.Components != comps || a.Type != "Float64" || a.Format != "appended" {
 		t.Errorf("array %d: name %q, %d components, %s %s; want %q, %d", i, a.Name, a.Components, a.Type, a.Format, name, comps)
 	}
 	if got := a.numbers(t); !reflect.DeepEqual(got, want) {
@@ -302,5 +385,32 @@ func TestWriteFileAtomic(t *testing.T) {
 	}
 	if err := WriteFileAtomic(filepath.Join(dir, "no", "such", "dir.txt"), func(io.Writer) error { return nil }); err == nil {
 		t.Error("writing into a missing folder succeeded")
+	}
+}
+
+// TestAppendedBlocks checks the compressed header of arrays that fill
+// their last block exactly (#p-size 0), end in a partial block, or are
+// empty, and that the blocks inflate to the bytes added.
+func TestAppendedBlocks(t *testing.T) {
+	for _, c := range []struct {
+		size, blocks, partial int
+	}{{0, 0, 0}, {8, 1, 8}, {blockSize, 1, 0}, {blockSize + 8, 2, 8}, {3 * blockSize, 3, 0}} {
+		a := newAppended()
+		a.add([]byte("before")) // a second array starts where the first ends
+		raw := make([]byte, c.size)
+		for i := range raw {
+			raw[i] = byte(i * i % 251)
+		}
+		offset := a.add(raw)
+		data := a.out.Bytes()
+		word := func(k int) int { return int(binary.LittleEndian.Uint64(data[offset+8*k:])) }
+		if word(0) != c.blocks || word(1) != blockSize || word(2) != c.partial {
+			t.Errorf("%d bytes: header [%d %d %d], want [%d %d %d]", c.size, word(0), word(1), word(2), c.blocks, blockSize, c.partial)
+			continue
+		}
+		got, end := inflateArray(t, data, offset)
+		if !bytes.Equal(got, raw) || end != len(data) {
+			t.Errorf("%d bytes: %d inflated, end %d of %d", c.size, len(got), end, len(data))
+		}
 	}
 }

@@ -33,6 +33,7 @@ func commands() []command {
 		{"fatigue", "bolt fatigue damage under a load spectrum, from the FE or the hand bolt-force function", runFatigue},
 		{"mesh", "mesh a model file and write mesh.vtu with the element quality", runMesh},
 		{"run", "run the finite-element analysis of one bolt segment from a model file", runRun},
+		{"sweep", "run a parameter sweep: the cases of a plan file, side by side or as shards of a batch array job", runSweep},
 		{"validate", "check a model file and print it with its defaults and derived quantities", runValidate},
 		{"verify", "run the verification problems of the finite-element core and print a table", runVerify},
 		{"version", "print the version", runVersion},

@@ -38,8 +38,10 @@ preloads the bolt, loads the segment in tension by moving the shell end and
 writes into DIR: history.csv (one row per converged increment), summary.json
 (preload, stiffness, load factor, opening and decompression load, peak,
 hand methods), plots (SVG and PNG), the fields as VTK (fields/*.vtu,
-fields.pvd) and model.resolved.toml (the model with every default filled
-in). Exit codes: 0 done, 2 bad model file, 3 the analysis stopped before
+compressed binary, and fields.pvd; [output] field_states chooses the
+states: "key" by default, the end of the preload, the opening, the
+decompression, the peak and the last; "all"; or "every N") and
+model.resolved.toml (the model with every default filled in). Exit codes: 0 done, 2 bad model file, 3 the analysis stopped before
 its end (results up to the last converged increment are written).
 
 DIR must be new, empty or an earlier flangeseg result (it holds

@@ -41,11 +41,17 @@ func TestRunCancelled(t *testing.T) {
 	if !errors.Is(res.Failure, context.Canceled) || !IsInterrupted(res.Failure) {
 		t.Fatalf("failure %v, want an interruption", res.Failure)
 	}
-	// The run stops right after the increment that brought the loaded
-	// edge to half its travel.
+	// The run stops right after the increment for which Progress first
+	// reported two of the four increments done (the loaded edge at
+	// 2/4 of its travel, rounded as Progress rounds).
 	last := res.History[len(res.History)-1]
-	if math.Abs(last.U-spec.Load.MaxDisplacement/2) > 1e-9 {
-		t.Fatalf("last row at u = %g mm, want %g", last.U, spec.Load.MaxDisplacement/2)
+	for _, r := range res.History[1:] {
+		if done := math.Round(4 * r.U / spec.Load.MaxDisplacement); done >= 2 && r.Increment != last.Increment {
+			t.Fatalf("ran past increment %d (u = %g mm) to %d", r.Increment, r.U, last.Increment)
+		}
+	}
+	if done := math.Round(4 * last.U / spec.Load.MaxDisplacement); done != 2 {
+		t.Fatalf("last row at u = %g mm: %g of 4 increments done, want 2", last.U, done)
 	}
 	if st := res.States[len(res.States)-1]; st.Label != fmt.Sprintf("increment %d", last.Increment) {
 		t.Errorf("last state kept %q, want that of increment %d", st.Label, last.Increment)

@@ -59,24 +59,43 @@ func runRobust(t testing.TB, c robustCase) *Result {
 	return r
 }
 
-// runRobustLogged runs a file of the family and counts the step halvings
-// in the solver's log (preload, release and tension stage together).
-func runRobustLogged(t testing.TB, c robustCase) (*Result, int) {
+// halvingCount counts the step halvings in the solver's log (preload,
+// release, tension stage and closing search together), and the most in a
+// row: the halvings one preload step or one increment needed before it
+// converged.
+type halvingCount struct {
+	all, run, most int
+	failed         bool // the attempt under way was halved
+}
+
+func (h *halvingCount) line(line string) {
+	switch {
+	case strings.Contains(line, "step halved") || strings.Contains(line, "step cut back"):
+		h.all++
+		h.run++
+		h.most = max(h.most, h.run)
+		h.failed = true
+	case strings.Contains(line, "preload: slice strain") || strings.Contains(line, "increment "):
+		// A new attempt: the one before converged unless it was halved.
+		if !h.failed {
+			h.run = 0
+		}
+		h.failed = false
+	}
+}
+
+// runRobustLogged runs a file of the family and counts its step halvings.
+func runRobustLogged(t testing.TB, c robustCase) (*Result, halvingCount) {
 	spec, err := modelfile.Load(filepath.Join("..", "..", "testdata", "robust", c.file+".toml"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	halvings := 0
-	log := func(line string) {
-		if strings.Contains(line, "step halved") {
-			halvings++
-		}
-	}
-	r, err := Run(context.Background(), spec, Options{Log: log})
+	var h halvingCount
+	r, err := Run(context.Background(), spec, Options{Log: h.line})
 	if err != nil {
 		t.Fatalf("%s: %v", c.file, err)
 	}
-	return r, halvings
+	return r, h
 }
 
 // checkRobust checks a run of the family against what the table says of
@@ -128,13 +147,14 @@ func TestRobustnessFamily(t *testing.T) {
 // BenchmarkRobustness runs the whole family, one sub-benchmark per file,
 // and reports the increments, the Newton iterations (all, and per
 // converged increment of the tension stage: median and largest) and the
-// step halvings of all stages, and the most halvings one increment of the
-// tension stage needed.
+// step halvings of all stages, the most halvings one increment of the
+// tension stage needed, and the most in a row any preload step, release
+// step or increment needed.
 func BenchmarkRobustness(b *testing.B) {
 	for _, c := range robustFamily {
 		b.Run(c.file, func(b *testing.B) {
 			var r *Result
-			halvings := 0
+			var halvings halvingCount
 			for i := 0; i < b.N; i++ {
 				r, halvings = runRobustLogged(b, c)
 			}
@@ -149,8 +169,9 @@ func BenchmarkRobustness(b *testing.B) {
 			b.ReportMetric(float64(r.Timing.Iterations), "newton")
 			b.ReportMetric(median(its), "median-its/inc")
 			b.ReportMetric(maxOf(its), "max-its/inc")
-			b.ReportMetric(float64(halvings), "halvings")
+			b.ReportMetric(float64(halvings.all), "halvings")
 			b.ReportMetric(float64(cuts), "max-cuts/inc")
+			b.ReportMetric(float64(halvings.most), "max-cuts/step")
 		})
 	}
 }

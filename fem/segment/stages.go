@@ -200,7 +200,7 @@ func (g *segment) preload(s *fem.Solver, res *analysis) (float64, error) {
 		var pr fem.PreloadResult
 		var err error
 		if target > 0 {
-			pr, err = s.Preload("bolt_preload", target, force, fem.PreloadOptions{Estimate: g.preloadEstimate(target)})
+			pr, err = s.Preload("bolt_preload", target, force, fem.PreloadOptions{Estimate: g.preloadEstimate(target), Gaps: g.faceGaps(s), Slope: res.preload.Slope})
 		} else {
 			pr, err = s.Shorten("bolt_preload", g.der.PreloadShortening, g.slice, 4, force)
 		}
@@ -354,6 +354,18 @@ func (g *segment) release(s *fem.Solver, v float64) (float64, error) {
 		v, v1, z0 = v1, next, z1
 	}
 	return 0, &fem.NotConvergedError{Iterations: 60, Reason: "the shell end did not come free of force in 60 secant steps"}
+}
+
+// faceGaps measures the gaps of the flange faces' points (+Inf where a
+// point faces nothing), for the preload's step control.
+func (g *segment) faceGaps(s *fem.Solver) func() []float64 {
+	return func() []float64 {
+		var out []float64
+		for _, r := range g.faces.NodeResults(s.Current()) {
+			out = append(out, r.Gap)
+		}
+		return out
+	}
 }
 
 // preloadEstimate is a first estimate of the slice strain that gives the

@@ -77,6 +77,7 @@ func inputKeys() map[string]inputKey {
 		"analysis.damage_alpha_bolt":  {"α", "fracture strain factor of the damage indicator, bolt steel", one, 0},
 		"analysis.damage_beta_bolt":   {"β", "triaxiality exponent of the damage indicator, bolt steel", one, 0},
 		"fatigue.gamma_mf":            {"γ_Mf", "partial factor on the fatigue strength (EN 1993-1-9)", one, 0},
+		"output.field_states":         {"", "states written as field files", "", 0},
 	}
 }
 
@@ -85,7 +86,7 @@ func inputCaptions() map[string]string {
 	return map[string]string{
 		"tower": "Tower", "shell": "Shell", "flange": "Flange", "bolt": "Bolt, washers and nut",
 		"contact": "Contact faces", "preload": "Preload", "load": "Load (tension stage)",
-		"mesh": "Mesh", "analysis": "Analysis", "fatigue": "Bolt fatigue",
+		"mesh": "Mesh", "analysis": "Analysis", "fatigue": "Bolt fatigue", "output": "Output",
 	}
 }
 

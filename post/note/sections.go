@@ -288,7 +288,7 @@ func (n *runNote) convergence() report.Quantities {
 		{Name: "preload solves", Value: num(float64(s.PreloadSolves), one), Source: srcFE},
 		{Name: "contact penalty", Value: num(s.PenaltyMPaPerMM, "MPa/mm"), Source: "10·E/(mesh.size·mesh.refine)"},
 		{Name: "largest penetration of any contact pair", Value: num(n.sum.Joint.PenetrationMaxMM, "mm"), Source: srcFE},
-		{Name: "states kept for field output", Value: num(float64(s.FieldStatesWritten), one), Source: srcFE},
+		{Name: "states written as field files", Value: num(float64(s.FieldStatesWritten), one), Source: srcFE},
 	}
 	if s.Increments > 0 {
 		var tension int

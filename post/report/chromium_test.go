@@ -119,6 +119,7 @@ func TestChromiumRendersNotes(t *testing.T) {
 	}{
 		{"report", func(p string) error { return Write(p, exampleReport()) }, reportSections},
 		{"compare", func(p string) error { return WriteCompare(p, exampleCompare()) }, compareSections()},
+		{"sweep", func(p string) error { return WriteSweep(p, exampleSweep()) }, sweepSections},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()

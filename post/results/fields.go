@@ -6,27 +6,65 @@ import (
 
 	"flangeseg/contact"
 	"flangeseg/fem/segment"
+	"flangeseg/fem/segment/figures"
 	"flangeseg/post"
 )
 
-// writeFields writes one .vtu per kept state and the fields.pvd series.
+// writeFields writes a .vtu for each state that output.field_states
+// chooses, named after its increment, and the fields.pvd series of them.
 func writeFields(dir string, r *segment.Result) error {
 	var series []post.SeriesEntry
-	for i, st := range r.States {
-		point, cell, err := post.SolutionFields(st.Solution)
-		if err != nil {
-			return err
-		}
-		point = append(point, contactFields(len(st.Solution.Model().Mesh().Nodes), st.Contacts)...)
-		cell = append(cell, historyFields(st.Plastic, st.Damage, len(st.Solution.Model().Mesh().Elements))...)
-		name := fmt.Sprintf("state_%03d.vtu", i)
-		mesh := st.Solution.Model().Mesh()
-		if err := post.WriteVTU(filepath.Join(dir, "fields", name), post.GridFromMesh(mesh), point, cell); err != nil {
+	for _, st := range FieldStates(r) {
+		name := fmt.Sprintf("state_%03d.vtu", st.Row.Increment)
+		if err := writeState(filepath.Join(dir, "fields", name), st); err != nil {
 			return err
 		}
 		series = append(series, post.SeriesEntry{Time: float64(st.Row.Increment), File: filepath.Join("fields", name)})
 	}
 	return post.WritePVD(filepath.Join(dir, "fields.pvd"), series)
+}
+
+// writeState writes the field file of one state: displacement, nodal
+// stresses, contact pressure and gap as point data; region, plastic
+// strain and damage as cell data.
+func writeState(path string, st segment.State) error {
+	m := st.Solution.Model().Mesh()
+	point, cell, err := post.SolutionFields(st.Solution)
+	if err != nil {
+		return err
+	}
+	point = append(point, contactFields(len(m.Nodes), st.Contacts)...)
+	cell = append(cell, historyFields(st.Plastic, st.Damage, len(m.Elements))...)
+	return post.WriteVTU(path, post.GridFromMesh(m), point, cell)
+}
+
+// FieldStates are the kept states of a run that get a field file, in
+// order, as the model's output.field_states chooses: all; the key states
+// (figures.KeyRows: the end of the preload, the opening, the
+// decompression, the peak, the last state); or the end of the preload,
+// every N-th increment and the last state.
+func FieldStates(r *segment.Result) []segment.State {
+	choice := r.Segment.Spec().Output.FieldChoice()
+	if choice.All || len(r.States) == 0 {
+		return r.States
+	}
+	chosen := map[int]bool{r.States[0].Row.Increment: true, r.States[len(r.States)-1].Row.Increment: true}
+	if choice.Every > 0 {
+		for _, st := range r.States {
+			chosen[st.Row.Increment] = chosen[st.Row.Increment] || st.Row.Increment%choice.Every == 0
+		}
+	} else {
+		for _, i := range figures.KeyRows(r.History) {
+			chosen[r.History[i].Increment] = true
+		}
+	}
+	var out []segment.State
+	for _, st := range r.States {
+		if chosen[st.Row.Increment] {
+			out = append(out, st)
+		}
+	}
+	return out
 }
 
 // historyFields are the cell means of equivalent plastic strain and damage

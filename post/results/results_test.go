@@ -3,13 +3,16 @@ package results
 import (
 	"context"
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
 	"reflect"
+	"strings"
 	"testing"
 
 	"flangeseg/fem/segment"
+	"flangeseg/fem/segment/figures"
 	"flangeseg/fem/segment/modelfile"
 )
 
@@ -72,6 +75,71 @@ func TestWriteAndReadBack(t *testing.T) {
 		if r.Increment != h.Increment || r.Stage != h.Stage || !near(r.Z, h.Z) || !near(r.U, h.U) || !near(r.Fs, h.Fs) ||
 			!near(r.GapEdge, h.GapEdge) || len(r.ZoneForce) != len(h.ZoneForce) {
 			t.Errorf("row %d: read %+v, ran %+v", i, r, h)
+		}
+	}
+}
+
+// output.field_states chooses the states that get a field file: the key
+// states by default, all, or every N-th with the preload and the last.
+func TestFieldStates(t *testing.T) {
+	res := coarseRun(t)
+	increments := func() []int {
+		var out []int
+		for _, st := range FieldStates(res) {
+			out = append(out, st.Row.Increment)
+		}
+		return out
+	}
+	var key, all, every3 []int
+	for _, i := range figures.KeyRows(res.History) {
+		key = append(key, res.History[i].Increment)
+	}
+	last := res.History[len(res.History)-1].Increment
+	for _, st := range res.States {
+		all = append(all, st.Row.Increment)
+		if n := st.Row.Increment; n%3 == 0 || n == last {
+			every3 = append(every3, n)
+		}
+	}
+	if len(all) < 5 || len(all) != len(res.History) {
+		t.Fatalf("%d states of %d rows: the test needs every row of at least 4 increments kept", len(all), len(res.History))
+	}
+	for _, c := range []struct {
+		value string
+		want  []int
+	}{{"key", key}, {"all", all}, {"every 3", every3}, {"every 1", all}, {"every 99", []int{0, last}}} {
+		res.Segment.Spec().Output.FieldStates = c.value
+		if got := increments(); !reflect.DeepEqual(got, c.want) {
+			t.Errorf("%s: increments %v, want %v", c.value, got, c.want)
+		}
+	}
+	if len(key) < 2 || key[0] != 0 || key[len(key)-1] != last {
+		t.Errorf("key states %v: want the preload (0) first and the last increment (%d) last", key, last)
+	}
+	// The files and the series follow the choice.
+	res.Segment.Spec().Output.FieldStates = "every 3"
+	dir := t.TempDir()
+	if _, err := Write(dir, "flat.toml", res); err != nil {
+		t.Fatal(err)
+	}
+	files, _ := filepath.Glob(filepath.Join(dir, "fields", "*.vtu"))
+	for i, f := range files {
+		files[i] = filepath.Base(f)
+	}
+	var want []string
+	for _, n := range every3 {
+		want = append(want, fmt.Sprintf("state_%03d.vtu", n))
+	}
+	if !reflect.DeepEqual(files, want) {
+		t.Errorf("field files %v, want %v", files, want)
+	}
+	pvd, err := os.ReadFile(filepath.Join(dir, "fields.pvd"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if !strings.Contains(string(pvd), `file="fields/`+f+`"`) {
+			t.Errorf("fields.pvd does not list %s", f)
 		}
 	}
 }

@@ -62,7 +62,7 @@ func NewSummary(path string, r *segment.Result) Summary {
 		Solver: SolverSummary{Increments: len(r.History) - 1, NewtonIterations: r.Timing.Iterations,
 			Factorizations: r.Timing.Factorizations, KrylovSteps: r.Timing.KrylovSteps,
 			PenaltyMPaPerMM: r.Segment.Penalty(),
-			PreloadSolves:   r.Preload.Iterations, FieldStatesWritten: len(r.States)},
+			PreloadSolves:   r.Preload.Iterations, FieldStatesWritten: len(FieldStates(r))},
 	}
 	if r.Failure != nil {
 		s.Failure = r.Failure.Error()

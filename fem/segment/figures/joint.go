@@ -63,15 +63,25 @@ const OpenGap = 1e-3
 // crossing returns the first Z at which f(row) passes from false to true,
 // interpolating linearly on the quantity q between the two rows.
 func crossing(rows []Row, q func(Row) float64, above float64) *float64 {
+	i := crossingRow(rows, q, above)
+	if i < 0 {
+		return nil
+	}
+	a, b := q(rows[i-1]), q(rows[i])
+	t := (above - a) / (b - a)
+	z := (rows[i-1].Z + t*(rows[i].Z-rows[i-1].Z)) / 1e3
+	return &z
+}
+
+// crossingRow is the first row i ≥ 1 at which q rises past above (q of
+// row i−1 ≤ above < q of row i), or −1.
+func crossingRow(rows []Row, q func(Row) float64, above float64) int {
 	for i := 1; i < len(rows); i++ {
-		a, b := q(rows[i-1]), q(rows[i])
-		if a <= above && b > above {
-			t := (above - a) / (b - a)
-			z := (rows[i-1].Z + t*(rows[i].Z-rows[i-1].Z)) / 1e3
-			return &z
+		if q(rows[i-1]) <= above && q(rows[i]) > above {
+			return i
 		}
 	}
-	return nil
+	return -1
 }
 
 // At interpolates the row quantity q at segment force z (N) on the rising
@@ -186,9 +196,9 @@ func curveFigures(rows []Row, f Joint, stub float64) Joint {
 		f.OpeningLoadKN = &zero
 		f.OpenAfterPreload = true
 	} else {
-		f.OpeningLoadKN = crossing(rows, func(r Row) float64 { return r.GapEdge }, OpenGap)
+		f.OpeningLoadKN = crossing(rows, edgeGap, OpenGap)
 	}
-	f.DecompressionKN = crossing(rows, func(r Row) float64 { return -r.ShellSide }, -1e-6)
+	f.DecompressionKN = crossing(rows, shellSideRelief, decompressed)
 	if f.OpeningLoadKN != nil && *f.OpeningLoadKN > 0 {
 		z := *f.OpeningLoadKN * 1e3
 		if u, ok := At(rows, z, func(r Row) float64 { return r.U }); ok {

@@ -118,6 +118,7 @@ func KeyDefaults() []KeyDefault {
 		{"analysis.large_deformation", "false", nil},
 		{"analysis.ring_springs", "true", func(s *Spec) { s.Analysis.RingSprings = true }},
 		{"fatigue.gamma_mf", "1.15", func(s *Spec) { s.Fatigue.GammaMf = 1.15 }},
+		{"output.field_states", `"key": the end of the preload, the opening, the decompression, the peak and the last state`, func(s *Spec) { s.Output.FieldStates = FieldStatesKey }},
 		{"analysis.materials", `"elastoplastic"`, func(s *Spec) { s.Analysis.Materials = Elastoplastic }},
 		{"analysis.bolt_strength", `"minimum"`, func(s *Spec) { s.Analysis.BoltStrength = BoltMinimum }},
 		{"analysis.damage_alpha_steel", "≈ 2.10 (from a 50 % reduction of area)", func(s *Spec) { defaultDamage(&s.Analysis.DamageAlphaSteel, material.StructuralSteelDamage().Alpha) }},

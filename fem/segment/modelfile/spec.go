@@ -18,6 +18,7 @@ type Spec struct {
 	Mesh      MeshSpec                `toml:"mesh"`
 	Analysis  AnalysisSpec            `toml:"analysis"`
 	Fatigue   FatigueSpec             `toml:"fatigue"`
+	Output    OutputSpec              `toml:"output"`
 	Materials map[string]MaterialSpec `toml:"materials,omitempty"`
 }
 
@@ -27,6 +28,16 @@ type Spec struct {
 // consequence of failure; the National Annex and the project decide).
 type FatigueSpec struct {
 	GammaMf float64 `toml:"gamma_mf"`
+}
+
+// OutputSpec chooses what a run writes beside its tables and plots.
+type OutputSpec struct {
+	// FieldStates chooses the converged states that get a field file
+	// (fields/state_NNN.vtu): "key" (the end of the preload, the opening,
+	// the decompression, the peak and the last state), "all", or
+	// "every N" (the end of the preload, every N-th increment of the
+	// tension stage and the last state). Read it with FieldChoice.
+	FieldStates string `toml:"field_states"`
 }
 
 // TowerSpec is the tower at the joint.
@@ -187,4 +198,7 @@ const (
 	BoltNominal      = "nominal"
 	CurveTrue        = "true"
 	CurveEngineering = "engineering"
+	FieldStatesKey   = "key"
+	FieldStatesAll   = "all"
+	FieldStatesEvery = "every" // followed by a space and N
 )

@@ -110,6 +110,7 @@ func (s *Spec) check(c *checker) {
 	s.checkContact(c)
 	s.checkLoad(c)
 	s.checkMesh(c)
+	s.checkOutput(c)
 }
 
 func (s *Spec) checkTower(c *checker) {
