@@ -21,6 +21,15 @@ var built struct {
 	out  []byte
 }
 
+// TestMain removes the binary the child-process tests built.
+func TestMain(m *testing.M) {
+	code := m.Run()
+	if built.path != "" {
+		os.RemoveAll(filepath.Dir(built.path))
+	}
+	os.Exit(code)
+}
+
 // flangesegBinary builds the command into a temporary directory (once)
 // and returns its path.
 func flangesegBinary(t *testing.T) string {
