@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post/note"
 	"flangeseg/post/results"
 )
@@ -16,8 +17,9 @@ func runCompare(args []string, stdout, stderr io.Writer) int {
 	fs.SetOutput(stderr)
 	outDir := fs.String("o", "compare_results", "write each model's run into `DIR`/NAME and the comparison into DIR")
 	verbose := fs.Bool("verbose", false, "log every Newton iteration on stderr (runs the models one by one)")
+	limit := addMemoryFlag(fs)
 	fs.Usage = func() {
-		fmt.Fprintf(stderr, `Usage: flangeseg compare A.toml B.toml [C.toml ...] [-o DIR] [--verbose]
+		fmt.Fprintf(stderr, `Usage: flangeseg compare A.toml B.toml [C.toml ...] [-o DIR] [--verbose] [--max-memory SIZE]
 
 Runs several models side by side (one per core) and compares them: a table
 of initial stiffness, secant stiffness to the reference load, load factor,
@@ -29,6 +31,11 @@ are in DIR/NAME, NAME being its file name without .toml.
 
 Typical uses: defined contact bands against a flat face, a fully threaded
 against a partially threaded bolt, another flange thickness.
+
+DIR must be new, empty or an earlier flangeseg result (it holds
+flangeseg_result.txt), which is replaced whole; anything else is refused.
+Ctrl-C or SIGTERM stops the analysis after the increment in hand, writes
+what converged and exits 3.
 
 %s
 
@@ -43,35 +50,40 @@ Flags:
 		fmt.Fprintln(stderr, "flangeseg compare: want two or more model files; run 'flangeseg compare --help'")
 		return exitBadInput
 	}
-	jobs, names, ok := compareJobs(fs.Args(), *outDir, stderr)
+	jobs, names, ok := compareJobs(fs.Args(), stderr)
 	if !ok {
 		return exitBadInput
 	}
-	sums, code := runModels(jobs, "compare", *verbose, stdout, stderr)
-	if code != exitOK {
-		fmt.Fprintln(stderr, "flangeseg compare: a model did not finish; no comparison written")
-		return code
-	}
-	compareTable(stdout, names, sums)
-	if err := note.WriteCompare(*outDir, names, jobs, sums); err != nil {
-		fmt.Fprintf(stderr, "flangeseg compare: writing the report: %v\n", err)
-		return exitAnalysis
-	}
-	paths, dirs := make([]string, len(jobs)), make([]string, len(jobs))
+	specs, paths := make([]*modelfile.Spec, len(jobs)), make([]string, len(jobs))
 	for i, j := range jobs {
-		paths[i], dirs[i] = j.Path, j.Dir
+		specs[i], paths[i] = j.Spec, j.Path
 	}
-	if err := results.WriteComparison(*outDir, names, paths, dirs, sums); err != nil {
-		fmt.Fprintf(stderr, "flangeseg compare: writing the comparison: %v\n", err)
-		return exitAnalysis
+	if !checkSizes(specs, paths, limit, stderr) {
+		return exitBadInput
 	}
-	fmt.Fprintf(stdout, "comparison in %s\n", *outDir)
-	return exitOK
+	return runSideBySide(*outDir, "compare", jobs, *verbose, stdout, stderr, func(staged string, sums []results.Summary) int {
+		compareTable(stdout, names, sums)
+		if err := note.WriteCompare(staged, names, jobs, sums); err != nil {
+			fmt.Fprintf(stderr, "flangeseg compare: writing the report: %v\n", err)
+			return exitAnalysis
+		}
+		paths, dirs := make([]string, len(jobs)), make([]string, len(jobs))
+		for i, j := range jobs {
+			paths[i], dirs[i] = j.Path, j.Dir
+		}
+		if err := results.WriteComparison(staged, names, paths, dirs, sums); err != nil {
+			fmt.Fprintf(stderr, "flangeseg compare: writing the comparison: %v\n", err)
+			return exitAnalysis
+		}
+		fmt.Fprintf(stdout, "comparison in %s\n", *outDir)
+		return exitOK
+	})
 }
 
 // compareJobs loads every model (all errors are reported before any run)
-// and gives each a run directory named after its file.
-func compareJobs(paths []string, dir string, stderr io.Writer) ([]note.ModelJob, []string, bool) {
+// and gives each a run directory named after its file (relative to the
+// comparison's directory).
+func compareJobs(paths []string, stderr io.Writer) ([]note.ModelJob, []string, bool) {
 	var jobs []note.ModelJob
 	var names []string
 	used := map[string]int{}
@@ -91,7 +103,7 @@ func compareJobs(paths []string, dir string, stderr io.Writer) ([]note.ModelJob,
 			name = fmt.Sprintf("%s_%d", name, n)
 		}
 		names = append(names, name)
-		jobs = append(jobs, note.ModelJob{Spec: spec, Path: path, Dir: filepath.Join(dir, name)})
+		jobs = append(jobs, note.ModelJob{Spec: spec, Path: path, Dir: name})
 	}
 	return jobs, names, ok
 }

@@ -4,6 +4,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 	"text/tabwriter"
 
@@ -31,6 +32,11 @@ range; --to-failure runs the flat-face joint with yielding and large
 deformation until the bolt ruptures or 30 mm, and states its ultimate load
 against the hand methods.
 
+DIR must be new, empty or an earlier flangeseg result (it holds
+flangeseg_result.txt), which is replaced whole; anything else is refused.
+Ctrl-C or SIGTERM stops the analysis after the increment in hand, writes
+what converged and exits 3.
+
 %s
 
 Flags:
@@ -52,7 +58,7 @@ Flags:
 			return exitBadInput
 		}
 		toFailureVariant(spec)
-		return runModel(note.ModelJob{Spec: spec, Path: "flat.toml, to failure", Dir: filepath.Join(*outDir, "flat_to_failure")}, runFlags{verbose: *verbose}, stdout, stderr)
+		return runToFailure(spec, *outDir, *verbose, stdout, stderr)
 	}
 	if *printModel {
 		for _, m := range models {
@@ -67,18 +73,42 @@ Flags:
 			fmt.Fprintf(stderr, "demo %s: %v\n", m.Name, err)
 			return exitBadInput
 		}
-		jobs[i] = note.ModelJob{Spec: spec, Path: m.Name + ".toml", Dir: filepath.Join(*outDir, m.Name), Text: m.Data}
+		jobs[i] = note.ModelJob{Spec: spec, Path: m.Name + ".toml", Dir: m.Name, Text: m.Data}
 	}
-	sums, code := runModels(jobs, "demo", *verbose, stdout, stderr)
-	if code != exitOK {
-		return code
+	names := []string{"flat face", "defined bands"}
+	return runSideBySide(*outDir, "demo", jobs, *verbose, stdout, stderr, func(staged string, sums []results.Summary) int {
+		compareTable(stdout, names, sums)
+		if err := note.WriteCompare(staged, names, jobs, sums); err != nil {
+			fmt.Fprintf(stderr, "flangeseg demo: writing the report: %v\n", err)
+			return exitAnalysis
+		}
+		return exitOK
+	})
+}
+
+// runToFailure runs the demo to failure into dir/flat_to_failure. dir
+// must be new, empty or an earlier result, and is marked as one, so that
+// a later demo into dir replaces it whole.
+func runToFailure(spec *modelfile.Spec, dir string, verbose bool, stdout, stderr io.Writer) int {
+	if err := results.CheckOutDir(dir); err != nil {
+		fmt.Fprintf(stderr, "flangeseg demo: %v\n", err)
+		return exitBadInput
 	}
-	compareTable(stdout, []string{"flat face", "defined bands"}, sums)
-	if err := note.WriteCompare(*outDir, []string{"flat face", "defined bands"}, jobs, sums); err != nil {
-		fmt.Fprintf(stderr, "flangeseg demo: writing the report: %v\n", err)
-		return exitAnalysis
+	sub := filepath.Join(dir, "flat_to_failure")
+	if err := results.CheckOutDir(sub); err != nil {
+		fmt.Fprintf(stderr, "flangeseg demo: %v\n", err)
+		return exitBadInput
 	}
-	return exitOK
+	ctx, release := interruptible()
+	defer release()
+	code := runModel(ctx, note.ModelJob{Spec: spec, Path: "flat.toml, to failure", Dir: sub}, runFlags{verbose: verbose, stage: true}, stdout, stderr)
+	if _, err := os.Stat(sub); err == nil && !results.IsResult(dir) {
+		if err := results.Mark(dir, results.KindComparison); err != nil {
+			fmt.Fprintf(stderr, "flangeseg demo: %v\n", err)
+			return exitAnalysis
+		}
+	}
+	return code
 }
 
 // toFailureVariant turns the flat-face demo into its analysis to failure:

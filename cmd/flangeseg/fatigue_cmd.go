@@ -13,6 +13,7 @@ import (
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post/fatigue"
 	"flangeseg/post/fatigue/assess"
+	"flangeseg/post/results"
 )
 
 // fatigueFlags are the options of `flangeseg fatigue`: the output
@@ -51,9 +52,12 @@ func runFatigue(args []string, stdout, stderr io.Writer) int {
 	if f.out == "" {
 		f.out = strings.TrimSuffix(filepath.Base(path), ".toml") + "_fatigue"
 	}
-	spec, err := modelfile.Load(path)
-	if err != nil {
-		fmt.Fprintln(stderr, err)
+	spec, ok := loadOrReport(path, "fatigue", stderr)
+	if !ok {
+		return exitBadInput
+	}
+	if err := results.CheckOutDir(f.out); err != nil {
+		fmt.Fprintf(stderr, "flangeseg fatigue: %v\n", err)
 		return exitBadInput
 	}
 	if f.GammaMf == 0 {
@@ -71,7 +75,7 @@ func runFatigue(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "flangeseg fatigue: --loads %s: %v\n", f.Loads, err)
 		return exitBadInput
 	}
-	if err := job.Write(f.out); err != nil {
+	if err := results.WriteStaged(f.out, results.KindFatigue, job.Write); err != nil {
 		fmt.Fprintf(stderr, "flangeseg fatigue: writing results: %v\n", err)
 		return exitAnalysis
 	}

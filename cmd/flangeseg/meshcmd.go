@@ -4,12 +4,12 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 
 	"flangeseg/fem/segment"
 	"flangeseg/fem/segment/modelfile"
 	"flangeseg/post"
+	"flangeseg/post/results"
 )
 
 func runMesh(args []string, stdout, stderr io.Writer) int {
@@ -52,14 +52,15 @@ Flags:
 	if dir == "" {
 		dir = trimExt(filepath.Base(path)) + "_mesh"
 	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
+	if err := results.CheckOutDir(dir); err != nil {
 		fmt.Fprintf(stderr, "flangeseg mesh: %v\n", err)
 		return exitBadInput
 	}
 	m := seg.Mesh()
 	seg.Model().Number()
-	file := filepath.Join(dir, "mesh.vtu")
-	if err := post.WriteVTU(file, post.GridFromMesh(m), nil, []post.Field{post.RegionField(m)}); err != nil {
+	if err := results.WriteStaged(dir, results.KindMesh, func(staged string) error {
+		return post.WriteVTU(filepath.Join(staged, "mesh.vtu"), post.GridFromMesh(m), nil, []post.Field{post.RegionField(m)})
+	}); err != nil {
 		fmt.Fprintf(stderr, "flangeseg mesh: %v\n", err)
 		return exitAnalysis
 	}
@@ -73,7 +74,7 @@ Flags:
 		fmt.Fprintf(stdout, "  %-18s %d sides\n", name, len(m.EdgeSets[name]))
 	}
 	fmt.Fprintf(stdout, "element quality:\n%s\n", m.Quality())
-	fmt.Fprintf(stdout, "written %s\n", file)
+	fmt.Fprintf(stdout, "written %s\n", filepath.Join(dir, "mesh.vtu"))
 	return exitOK
 }
 

@@ -14,6 +14,7 @@ import (
 
 	"golang.org/x/term"
 
+	"flangeseg/fem"
 	"flangeseg/fem/segment"
 	"flangeseg/fem/segment/figures"
 	"flangeseg/fem/segment/modelfile"
@@ -28,8 +29,9 @@ func runRun(args []string, stdout, stderr io.Writer) int {
 	outDir := fs.String("o", "", "write the results into this `DIR` (default: the model file's name without .toml, plus _results)")
 	verbose := fs.Bool("verbose", false, "log every Newton iteration on stderr")
 	dump := fs.String("dump-matrix", "", "write the first assembled tangent and residual in Matrix Market form into this `DIR`")
+	limit := addMemoryFlag(fs)
 	fs.Usage = func() {
-		fmt.Fprintf(stderr, `Usage: flangeseg run MODEL.toml [-o DIR] [--verbose] [--dump-matrix DIR]
+		fmt.Fprintf(stderr, `Usage: flangeseg run MODEL.toml [-o DIR] [--verbose] [--dump-matrix DIR] [--max-memory SIZE]
 
 Builds the finite-element model of one bolt segment from MODEL.toml,
 preloads the bolt, loads the segment in tension by moving the shell end and
@@ -41,6 +43,11 @@ states: "key" by default, the end of the preload, the opening, the
 decompression, the peak and the last; "all"; or "every N") and
 model.resolved.toml (the model with every default filled in). Exit codes: 0 done, 2 bad model file, 3 the analysis stopped before
 its end (results up to the last converged increment are written).
+
+DIR must be new, empty or an earlier flangeseg result (it holds
+flangeseg_result.txt), which is replaced whole; anything else is refused.
+Ctrl-C or SIGTERM stops the analysis after the increment in hand, writes
+what converged and exits 3.
 
 %s
 
@@ -60,12 +67,21 @@ Flags:
 	if dir == "" {
 		dir = strings.TrimSuffix(filepath.Base(path), ".toml") + "_results"
 	}
-	spec, err := modelfile.Load(path)
-	if err != nil {
-		fmt.Fprintln(stderr, err)
+	spec, ok := loadOrReport(path, "run", stderr)
+	if !ok {
 		return exitBadInput
 	}
-	return runModel(note.ModelJob{Spec: spec, Path: path, Dir: dir}, runFlags{verbose: *verbose, dump: *dump}, stdout, stderr)
+	if _, err := checkSize(spec, limit, 0); err != nil {
+		reportModelError(path, err, stderr)
+		return exitBadInput
+	}
+	if err := results.CheckOutDir(dir); err != nil {
+		fmt.Fprintf(stderr, "flangeseg run: %v\n", err)
+		return exitBadInput
+	}
+	ctx, release := interruptible()
+	defer release()
+	return runModel(ctx, note.ModelJob{Spec: spec, Path: path, Dir: dir}, runFlags{verbose: *verbose, dump: *dump, stage: true}, stdout, stderr)
 }
 
 // runFlags are the options of a run that do not come from the model file.
@@ -75,25 +91,76 @@ type runFlags struct {
 	// progress, if set, receives the increments done instead of a
 	// progress bar of the run's own (demo runs several models at once).
 	progress func(done int)
+	// stage: the run writes its results under a temporary name beside
+	// the job's Dir and renames them into place whole (results.Stage);
+	// without it the job's Dir lies inside a directory that is staged
+	// already (demo, compare), and shown is how messages name it.
+	stage bool
+	shown string
+}
+
+// shownDir is the job's results directory as messages name it.
+func (f runFlags) shownDir(job note.ModelJob) string {
+	if f.shown != "" {
+		return f.shown
+	}
+	return job.Dir
 }
 
 // runModel runs one valid model and writes its results; it returns the
-// exit code.
-func runModel(job note.ModelJob, flags runFlags, stdout, stderr io.Writer) int {
-	spec, path, dir := job.Spec, job.Path, job.Dir
+// exit code. ctx ending stops the analysis at its next safe point; what
+// converged is written and the exit code is exitAnalysis.
+func runModel(ctx context.Context, job note.ModelJob, flags runFlags, stdout, stderr io.Writer) int {
+	spec, path := job.Spec, job.Path
 	for _, w := range spec.Derive().Warnings {
 		fmt.Fprintf(stderr, "%s: warning: %s\n", path, w)
 	}
 	seg, err := segment.Build(spec)
 	if err != nil {
+		reportModelError(path, err, stderr)
+		return exitBadInput
+	}
+	opt, finish, err := runOptions(path, spec, flags, stderr)
+	if err != nil {
 		fmt.Fprintf(stderr, "%s: %v\n", path, err)
 		return exitBadInput
 	}
-	var opt segment.Options
+	start := time.Now()
+	res, err := seg.Run(ctx, opt)
+	finish()
+	switch {
+	case err != nil && ctx.Err() != nil:
+		fmt.Fprintf(stderr, "%s: interrupted (%v) before the preload converged; nothing written\n", path, context.Cause(ctx))
+		return exitAnalysis
+	case err != nil:
+		fmt.Fprintf(stderr, "%s: analysis: %v\n", path, err)
+		return exitAnalysis
+	}
+	shown := flags.shownDir(job)
+	sum, err := writeRun(job, flags.stage, res)
+	if err != nil {
+		fmt.Fprintf(stderr, "%s: writing results: %v\n", path, err)
+		return exitAnalysis
+	}
+	printSummary(stdout, sum, res.Timing, shown, time.Since(start))
+	switch {
+	case segment.IsInterrupted(res.Failure):
+		fmt.Fprintf(stderr, "%s: %v\neverything up to that state is written in %s (summary.json says \"interrupted\")\n", path, res.Failure, shown)
+		return exitAnalysis
+	case res.Failure != nil:
+		fmt.Fprintf(stderr, "%s: the analysis stopped: %v\n%s\nresults up to the last converged increment are in %s\n", path, res.Failure, res.Diagnosis, shown)
+		return exitAnalysis
+	}
+	return exitOK
+}
+
+// runOptions are the segment options of flags: the matrix dump, the
+// Newton log or a progress bar; finish ends the progress bar.
+func runOptions(path string, spec *modelfile.Spec, flags runFlags, stderr io.Writer) (opt segment.Options, finish func(), err error) {
+	finish = func() {}
 	if flags.dump != "" {
 		if err := os.MkdirAll(flags.dump, 0o755); err != nil {
-			fmt.Fprintf(stderr, "%s: --dump-matrix: %v\n", path, err)
-			return exitBadInput
+			return opt, finish, fmt.Errorf("--dump-matrix: %w", err)
 		}
 		opt.Inspect = func(k *sparse.Matrix, rhs []float64) error {
 			return dumpSystem(flags.dump, strings.TrimSuffix(filepath.Base(path), ".toml")+" first tangent", k, rhs)
@@ -107,29 +174,30 @@ func runModel(job note.ModelJob, flags runFlags, stdout, stderr io.Writer) int {
 	default:
 		if bar := progressBar(stderr, spec.Load.Increments, filepath.Base(path)); bar != nil {
 			opt.Progress = func(done, _ int) { _ = bar.Set(done) }
-			defer bar.Finish()
+			finish = func() { _ = bar.Finish() }
 		}
 	}
-	start := time.Now()
-	res, err := seg.Run(context.Background(), opt)
-	if err != nil {
-		fmt.Fprintf(stderr, "%s: analysis: %v\n", path, err)
-		return exitAnalysis
+	return opt, finish, nil
+}
+
+// writeRun writes a run's results and its calculation note into the
+// job's Dir: staged (under a temporary name, then renamed into place
+// whole, replacing an earlier result) or straight into a directory that
+// is itself staged. Either way the directory is marked as a run's result.
+func writeRun(job note.ModelJob, stage bool, res *segment.Result) (sum results.Summary, err error) {
+	write := func(dir string) error {
+		if sum, err = results.Write(dir, job.Path, res); err != nil {
+			return err
+		}
+		return note.WriteRun(dir, job.Path, job.Text, res, sum)
 	}
-	sum, err := results.Write(dir, path, res)
-	if err == nil {
-		err = note.WriteRun(dir, path, job.Text, res, sum)
+	if stage {
+		return sum, results.WriteStaged(job.Dir, results.KindRun, write)
 	}
-	if err != nil {
-		fmt.Fprintf(stderr, "%s: writing results: %v\n", path, err)
-		return exitAnalysis
+	if err := write(job.Dir); err != nil {
+		return sum, err
 	}
-	printSummary(stdout, sum, dir, time.Since(start))
-	if res.Failure != nil {
-		fmt.Fprintf(stderr, "%s: the analysis stopped: %v\n%s\nresults up to the last converged increment are in %s\n", path, res.Failure, res.Diagnosis, dir)
-		return exitAnalysis
-	}
-	return exitOK
+	return sum, results.Mark(job.Dir, results.KindRun)
 }
 
 // progressBar returns a bar on a terminal, nil in pipes and CI.
@@ -186,7 +254,7 @@ func kNPerMMOr(p *float64) string {
 	return fmt.Sprintf("%.0f kN/mm", *p)
 }
 
-func printSummary(w io.Writer, s results.Summary, dir string, took time.Duration) {
+func printSummary(w io.Writer, s results.Summary, tm fem.Timing, dir string, took time.Duration) {
 	j := s.Joint
 	fmt.Fprintf(w, "%s\n", s.Title)
 	fmt.Fprintf(w, "  preload               %.1f kN (target %.1f kN)\n", j.PreloadReachedKN, j.PreloadTargetKN)
@@ -217,6 +285,8 @@ func printSummary(w io.Writer, s results.Summary, dir string, took time.Duration
 	fmt.Fprintf(w, "  largest penetration   %.2g mm\n", j.PenetrationMaxMM)
 	fmt.Fprintf(w, "  %d equations, %d increments, %d Newton iterations, %.1f s; results in %s\n",
 		s.Mesh.Equations, s.Solver.Increments, s.Solver.NewtonIterations, took.Seconds(), dir)
+	fmt.Fprintf(w, "  solver time           assembly %.2f s, contact %.2f s, ordering %.2f s, factorization %.2f s, solves %.2f s\n",
+		tm.Assembly.Seconds(), tm.Contact.Seconds(), tm.Analysis.Seconds(), tm.Factorization.Seconds(), tm.Solve.Seconds())
 }
 
 // closingLine is the bolt force the closing of an initial gap took, its

@@ -69,7 +69,8 @@ func TestMeshCommand(t *testing.T) {
 	if err := os.WriteFile(model, demoModels()[1].Data, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	code, stdout, stderr := runCLI("mesh", model, "-o", dir)
+	out := filepath.Join(dir, "mesh")
+	code, stdout, stderr := runCLI("mesh", model, "-o", out)
 	if code != exitOK {
 		t.Fatalf("exit %d\n%s%s", code, stdout, stderr)
 	}
@@ -78,7 +79,11 @@ func TestMeshCommand(t *testing.T) {
 			t.Errorf("output lacks %q:\n%s", want, stdout)
 		}
 	}
-	if _, err := os.Stat(filepath.Join(dir, "mesh.vtu")); err != nil {
+	if _, err := os.Stat(filepath.Join(out, "mesh.vtu")); err != nil {
 		t.Error(err)
+	}
+	// The model's own directory holds the model: not a result to replace.
+	if code, _, stderr := runCLI("mesh", model, "-o", dir); code != exitBadInput || !strings.Contains(stderr, "not a flangeseg result") {
+		t.Errorf("mesh into the model's directory: exit %d\n%s", code, stderr)
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"io"
 	"text/tabwriter"
 
+	"flangeseg/fem/segment"
 	"flangeseg/fem/segment/modelfile"
 )
 
@@ -14,8 +15,9 @@ import (
 func runValidate(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("validate", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	fs.Usage = func() { validateUsage(stderr) }
-	if err := fs.Parse(args); err != nil {
+	fs.Usage = func() { validateUsage(stderr, fs) }
+	limit := addMemoryFlag(fs)
+	if err := fs.Parse(reorderFlags(fs, args)); err != nil {
 		return parseExit(err)
 	}
 	if fs.NArg() != 1 {
@@ -27,10 +29,20 @@ func runValidate(args []string, stdout, stderr io.Writer) int {
 	if !ok {
 		return exitBadInput
 	}
-	if err := printModel(stdout, path, s); err != nil {
+	size, err := segment.EstimateSize(s)
+	if err != nil {
+		reportModelError(path, err, stderr)
+		return exitBadInput
+	}
+	if err := printModel(stdout, path, s, size, limit); err != nil {
 		fmt.Fprintf(stderr, "flangeseg validate: %v\n", err)
 		return exitBadInput
 	}
+	if sizeErr := refuseSize(s, size, limit, 0); sizeErr != nil {
+		fmt.Fprintf(stderr, "%s: %v\n%s: model refused: too large for the memory limit (1 error)\n", path, sizeErr, path)
+		return exitBadInput
+	}
+	fmt.Fprintln(stdout, "model is valid")
 	return exitOK
 }
 
@@ -42,14 +54,32 @@ func loadOrReport(path, command string, stderr io.Writer) (*modelfile.Spec, bool
 	var me *modelfile.Error
 	switch {
 	case errors.As(err, &me):
-		fmt.Fprintln(stderr, err)
-		fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.Errs), plural(len(me.Errs), "error", "errors"))
+		reportInvalid(path, me, stderr)
 		return nil, false
 	case err != nil:
 		fmt.Fprintf(stderr, "flangeseg %s: %v\n", command, err)
 		return nil, false
 	}
 	return s, true
+}
+
+// reportInvalid writes every problem of an invalid model, each after the
+// file name, and their count.
+func reportInvalid(path string, me *modelfile.Error, stderr io.Writer) {
+	me.File = path
+	fmt.Fprintln(stderr, me)
+	fmt.Fprintf(stderr, "%s: model is invalid (%d %s)\n", path, len(me.Errs), plural(len(me.Errs), "error", "errors"))
+}
+
+// reportModelError writes an error about the model at path: every
+// problem of a *modelfile.Error, else the error after the file name.
+func reportModelError(path string, err error, stderr io.Writer) {
+	var me *modelfile.Error
+	if errors.As(err, &me) {
+		reportInvalid(path, me, stderr)
+		return
+	}
+	fmt.Fprintf(stderr, "%s: %v\n", path, err)
 }
 
 func plural(n int, one, many string) string {
@@ -59,8 +89,8 @@ func plural(n int, one, many string) string {
 	return many
 }
 
-func validateUsage(w io.Writer) {
-	fmt.Fprint(w, `Usage: flangeseg validate MODEL.toml
+func validateUsage(w io.Writer, fs *flag.FlagSet) {
+	fmt.Fprint(w, `Usage: flangeseg validate MODEL.toml [--max-memory SIZE]
 
 Reads a model file strictly, fills in the defaults and checks every value.
 A valid model is printed with all defaults filled in (the form a run keeps
@@ -69,6 +99,13 @@ areas and strengths, preload, segment width, strip thicknesses, ring-spring
 stiffness, shell decay length 3/β) and any warnings. An invalid model gives
 every error at once on stderr, one per line, prefixed with the file name:
 the key, its value and the rule it breaks. Nothing is written to disk.
+
+It also estimates the model's size from the mesh keys, without building
+it: elements, equations and the peak memory of a run (calibrated on runs
+of the demo joint; it errs high). A model whose estimate exceeds the
+machine's memory (MemTotal of /proc/meminfo) or --max-memory is refused
+with exit 2, naming the keys that set its size; run and compare refuse it
+the same way before any work.
 
 Units in the file: mm, N, MPa, degrees. Zones are numbered from 0 in
 messages (contact.zones[0] is the first).
@@ -87,13 +124,18 @@ and, for bolt.material, the bolt grades 8.8, 10.9, 12.9. A [materials.NAME]
 table defines a material (E, nu, optionally curve and curve_kind) and takes
 precedence over a built-in one of the same name.
 
-Exit codes: 0 the model is valid, 2 it is invalid or cannot be read.
+Exit codes: 0 the model is valid, 2 it is invalid, cannot be read or is
+too large for the memory limit.
+
+Flags:
 `)
+	fs.SetOutput(w)
+	fs.PrintDefaults()
 }
 
 // printModel writes the resolved model, its derived quantities and the
 // warnings.
-func printModel(w io.Writer, path string, s *modelfile.Spec) error {
+func printModel(w io.Writer, path string, s *modelfile.Spec, size segment.Size, limit *memoryLimit) error {
 	resolved, err := s.ResolvedTOML()
 	if err != nil {
 		return err
@@ -107,6 +149,11 @@ func printModel(w io.Writer, path string, s *modelfile.Spec) error {
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
+	fmt.Fprintf(w, "Estimated size (from the mesh keys): %s", sizeLine(size))
+	if max, from := limit.limit(); max > 0 {
+		fmt.Fprintf(w, "; limit %s (%s)", formatBytes(max), from)
+	}
+	fmt.Fprint(w, "\n\n")
 	if len(d.Warnings) == 0 {
 		fmt.Fprintln(w, "Warnings: none")
 	} else {
@@ -115,7 +162,6 @@ func printModel(w io.Writer, path string, s *modelfile.Spec) error {
 			fmt.Fprintf(w, "  - %s\n", m)
 		}
 	}
-	fmt.Fprintln(w, "model is valid")
 	return nil
 }
 

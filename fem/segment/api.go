@@ -19,11 +19,12 @@ type Segment struct{ g *segment }
 
 // Build meshes the joint of a valid model and sets up the finite-element
 // model (supports, ring springs, the bolt's tie, the contact pairs, the
-// loaded edge) and the hand methods beside it.
+// loaded edge) and the hand methods beside it. A model the mesh refuses
+// (beyond the model file's own rules) gives a *modelfile.Error.
 func Build(spec *modelfile.Spec) (*Segment, error) {
 	g, err := buildSegment(spec, spec.Derive())
 	if err != nil {
-		return nil, err
+		return nil, inputError(err)
 	}
 	return &Segment{g}, nil
 }
@@ -95,7 +96,8 @@ type Result struct {
 	Figures figures.Joint
 	Preload fem.PreloadResult
 	// Ending says why the tension stage ended; Failure is non-nil when
-	// the run stopped before its end (a stage did not converge).
+	// the run stopped before its end (a stage did not converge, or ctx
+	// ended: an *InterruptedError).
 	Ending  string
 	Failure error
 	// Diagnosis says in words, when Failure is set, what happened, where,
@@ -126,9 +128,12 @@ type State struct {
 
 // Run builds the segment of a valid model and analyses it: the preload,
 // then the tension stage to its end. A stage that does not converge ends
-// the run with the increments that did (Result.Failure); a model that
-// cannot be built, or ctx ending (checked before the preload and after
-// each increment), is returned as the error.
+// the run with the increments that did (Result.Failure). ctx ending is
+// checked at the safe points — before and after the preload, after each
+// increment, between the levels of the closing search: before the
+// preload it is returned as the error (nothing has converged), later it
+// ends the run with every converged state and an *InterruptedError as
+// Result.Failure. A model that cannot be built is returned as the error.
 func Run(ctx context.Context, spec *modelfile.Spec, opt Options) (*Result, error) {
 	g, err := Build(spec)
 	if err != nil {
@@ -141,7 +146,7 @@ func Run(ctx context.Context, spec *modelfile.Spec, opt Options) (*Result, error
 func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 	g := s.g
 	g.stickWashers = g.facesStartApart()
-	aopt := analyseOptions{inspect: opt.Inspect, log: opt.Log, progress: opt.Progress, keep: opt.Keep, stop: ctx.Err}
+	aopt := analyseOptions{inspect: opt.Inspect, log: opt.Log, progress: opt.Progress, keep: opt.Keep, stop: stopper(ctx)}
 	a, err := g.analyse(aopt)
 	if err != nil {
 		return nil, err
@@ -167,11 +172,15 @@ func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 			s.g, g, a = again, again, b
 		}
 	}
-	if gap, _, ok := g.gapAfterPreload(a); ok && gap <= closedGap {
+	if gap, _, ok := g.gapAfterPreload(a); ok && gap <= closedGap && !IsInterrupted(a.failure) {
 		// The faces closed: how much of the preload that took is looked
 		// for apart from the analysis, which it leaves as it is.
 		if a.closing, err = g.findClosing(a.preload.Force, aopt.stop, opt.Log); err != nil {
-			return nil, err
+			if a.failure != nil {
+				return nil, err
+			}
+			a.interrupt(err)
+			a.closing.failed = fmt.Errorf("interrupted: %w", err)
 		}
 	}
 	r := &Result{Segment: s, History: a.rows, Preload: a.preload, Ending: a.ending, Failure: a.failure, Diagnosis: a.diagnosis,
@@ -182,6 +191,18 @@ func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 			Plastic: st.history.plastic, Damage: st.history.damage})
 	}
 	return r, nil
+}
+
+// stopper is the analysis's stop callback: nil until ctx ends, then the
+// cause of its end (context.Cause: the context's error, or what its
+// canceller said, which wraps it).
+func stopper(ctx context.Context) func() error {
+	return func() error {
+		if ctx.Err() == nil {
+			return nil
+		}
+		return context.Cause(ctx)
+	}
 }
 
 // addTiming sums the solver statistics of two attempts.

@@ -10,9 +10,12 @@
 //	res, err := segment.Run(ctx, spec, segment.Options{Progress: func(done, all int) { … }})
 //	res.Figures.OpeningLoadKN, res.Figures.FailureLocation, res.History[i].Fs …
 //
-// Run returns an error when the model cannot be built or ctx ends; a
-// stage that does not converge ends the run with the increments that did
-// (Result.Failure). Several runs may go on at once in one process, each
+// Run returns an error when the model cannot be built or ctx ends before
+// the preload has converged; a stage that does not converge, or ctx
+// ending later, ends the run with the increments that did
+// (Result.Failure; an *InterruptedError for ctx). EstimateSize says,
+// before anything is built, how many equations and how much memory a
+// model will take. Several runs may go on at once in one process, each
 // on its own Spec; the Spec is not modified. Units are mm, N, MPa inside;
 // the figures are in kN and kN/mm, as summary.json writes them.
 package segment

@@ -53,7 +53,7 @@ type analyseOptions struct {
 	log      func(string)                                // per-iteration log (--verbose), or nil
 	progress func(done, all int)                         // after each increment, or nil
 	keep     func(inc int) bool                          // which increments to keep fields of
-	stop     func() error                                // before the preload and after each increment: non-nil ends the run with it
+	stop     func() error                                // before and after the preload and after each increment: non-nil before the preload ends the run with it, later it ends the analysis as interrupted (analysis.interrupt)
 }
 
 // halt is the stop callback's verdict (nil without one).
@@ -103,9 +103,15 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		res.timing = s.Timing
 		return res, nil
 	}
+	if err := opt.halt(); err != nil {
+		res.interrupt(err)
+		res.timing = s.Timing
+		return res, nil
+	}
 	ld := g.spec.Load
 	peak := 0.0
 	res.ending = "maximum displacement reached"
+	var halted error // the stop callback's verdict, once it ends the ramp
 	err = s.Ramp(g.edge.Axial, v0+ld.MaxDisplacement, fem.RampOptions{Increments: ld.Increments, Budget: incrementBudget, BudgetCuts: budgetCuts}, func(inc fem.Increment) (bool, error) {
 		row, err := g.record(s, inc.Index, "tension", v0, inc.Iterations)
 		if err != nil {
@@ -121,7 +127,8 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 			opt.progress(int(math.Round(inc.Fraction*float64(ld.Increments))), ld.Increments)
 		}
 		if err := opt.halt(); err != nil {
-			return true, err
+			halted = err
+			return true, nil
 		}
 		peak = math.Max(peak, row.Z)
 		if peak > 0 && row.Z < (1-ld.StopDrop)*peak {
@@ -142,6 +149,10 @@ func (g *segment) analyse(opt analyseOptions) (*analysis, error) {
 		return false, nil
 	})
 	res.timing = s.Timing
+	if halted != nil {
+		res.interrupt(halted)
+		return res, nil
+	}
 	if err != nil {
 		var nc *fem.NotConvergedError
 		if !errors.As(err, &nc) {

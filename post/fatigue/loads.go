@@ -121,9 +121,10 @@ type LoadFile struct {
 	done  bool
 }
 
-// NewLoadFile reads the header of a load file and finds its layout.
+// NewLoadFile reads the header of a load file and finds its layout. No
+// line may be longer than MaxLine.
 func NewLoadFile(r io.Reader) (*LoadFile, error) {
-	cr := csv.NewReader(r)
+	cr := csv.NewReader(limitLines(r))
 	cr.Comment = '#'
 	cr.TrimLeadingSpace = true
 	cr.ReuseRecord = true
@@ -251,6 +252,12 @@ func (rd *loadReader) number(rec []string, col map[string]int, name string, ok f
 	return x, nil
 }
 
+// overflow is the error of a line whose finite numbers give a segment
+// force beyond the range of float64 (from lo to hi, N).
+func (rd *loadReader) overflow(lo, hi float64) error {
+	return fmt.Errorf("load file: line %d: gives a segment force from %g to %g N: must be finite (a number of the line is far too large)", rd.line, lo, hi)
+}
+
 func (rd *loadReader) series(kind LoadKind, col map[string]int, t Tower, sink func(Cycle) error) error {
 	c := NewCounter(sink)
 	for {
@@ -280,6 +287,9 @@ func (rd *loadReader) series(kind LoadKind, col map[string]int, t Tower, sink fu
 				return err
 			}
 			z = t.SegmentForce(m*1e6, n*1e3)
+		}
+		if !finite(z) {
+			return rd.overflow(z, z)
 		}
 		if err := c.Add(z); err != nil {
 			return fmt.Errorf("load file: line %d: %w", rd.line, err)
@@ -323,6 +333,9 @@ func (rd *loadReader) table(kind LoadKind, col map[string]int, t Tower, sink fun
 				return err
 			}
 			lo, hi = t.SegmentForce((m-r/2)*1e6, nf*1e3), t.SegmentForce((m+r/2)*1e6, nf*1e3)
+		}
+		if !finite(lo) || !finite(hi) {
+			return rd.overflow(lo, hi)
 		}
 		if err := sink(Cycle{From: lo, To: hi, Count: n}); err != nil {
 			return fmt.Errorf("load file: line %d: %w", rd.line, err)

@@ -1,6 +1,7 @@
 package fatigue
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -88,5 +89,44 @@ func TestReadLoadsErrors(t *testing.T) {
 	}
 	if _, _, err := collect(t, "moment_kNm,normal_force_kN\n1,2\n", Tower{}); err == nil || !strings.Contains(err.Error(), "tower diameter") {
 		t.Errorf("tower layout without a tower: error %v", err)
+	}
+}
+
+// A file without line breaks is refused once a line passes MaxLine,
+// after reading little more than that: load files and S–N curves alike.
+func TestLongLineRefused(t *testing.T) {
+	long := strings.Repeat("1", 10*MaxLine)
+	for name, text := range map[string]string{"header": long, "data": "Z_kN\n1\n" + long + "\n"} {
+		_, _, err := collect(t, text, Tower{Diameter: 4000, Bolts: 100})
+		if err == nil || !strings.Contains(err.Error(), "longer than 65536 bytes") {
+			t.Errorf("%s: %v", name, err)
+		}
+	}
+	if _, err := ReadCurve(strings.NewReader("cycles,stress_range_MPa\n"+long), "c"); err == nil || !strings.Contains(err.Error(), "line 2: longer than") {
+		t.Errorf("curve: %v", err)
+	}
+	var b strings.Builder
+	b.WriteString("cycles,stress_range_MPa\n")
+	for i := range MaxCurvePoints + 1 {
+		fmt.Fprintf(&b, "%d,%g\n", 1000+i, 1e4-float64(i)*0.5)
+	}
+	if _, err := ReadCurve(strings.NewReader(b.String()), "c"); err == nil || !strings.Contains(err.Error(), "more than 10000 points") {
+		t.Errorf("curve of too many points: %v", err)
+	}
+}
+
+// Finite numbers whose segment force or S–N slope overflows are refused
+// with the line or point they come from (found by FuzzReadLoads and
+// FuzzReadCurve's stricter checks).
+func TestOverflowRefused(t *testing.T) {
+	for _, text := range []string{"Z_range_kN,Z_mean_kN,cycles\n1,1e308,1\n", "Z_kN\n0\n1e308\n", "moment_kNm,normal_force_kN\n0,0\n1e306,0\n"} {
+		_, _, err := collect(t, text, Tower{Diameter: 4000, Bolts: 100})
+		if err == nil || !strings.Contains(err.Error(), "must be finite (a number of the line is far too large)") || !strings.Contains(err.Error(), "line ") {
+			t.Errorf("%q: %v", text, err)
+		}
+	}
+	_, err := ReadCurve(strings.NewReader("cycles,stress_range_MPa\n1e-300,100\n1e300,50\n"), "c")
+	if err == nil || !strings.Contains(err.Error(), "point 1 (N = 1e+300") {
+		t.Errorf("curve: %v", err)
 	}
 }

@@ -196,16 +196,28 @@ func FromPoints(name string, pts []Point) (*Curve, error) {
 	branches := make([]Branch, len(pts)-1)
 	for i := range branches {
 		p, q := pts[i], pts[i+1]
-		branches[i] = Branch{Slope: math.Log(q.Cycles/p.Cycles) / math.Log(p.Range/q.Range), Range: p.Range, Cycles: p.Cycles, Lower: q.Range}
+		m := math.Log(q.Cycles/p.Cycles) / math.Log(p.Range/q.Range)
+		if !(m > 0) || math.IsInf(m, 0) {
+			errs = append(errs, fmt.Errorf("fatigue: S–N curve %q: point %d (N = %v, Δσ = %v MPa): the line from point %d has slope m = %v: must be a finite number > 0 (the points lie too far apart or too close)",
+				name, i+1, q.Cycles, q.Range, i, m))
+		}
+		branches[i] = Branch{Slope: m, Range: p.Range, Cycles: p.Cycles, Lower: q.Range}
+	}
+	if err := errors.Join(errs...); err != nil {
+		return nil, err
 	}
 	return NewCurve(name, branches)
 }
 
+// MaxCurvePoints bounds the points of an S–N curve file.
+const MaxCurvePoints = 10_000
+
 // ReadCurve reads an S–N curve as CSV points with the header
 // "cycles,stress_range_MPa" (columns in either order; lines starting with
-// # are comments) and returns FromPoints of them.
+// # are comments; at most MaxCurvePoints points, no line longer than
+// MaxLine) and returns FromPoints of them.
 func ReadCurve(r io.Reader, name string) (*Curve, error) {
-	cr := csv.NewReader(r)
+	cr := csv.NewReader(limitLines(r))
 	cr.Comment = '#'
 	cr.TrimLeadingSpace = true
 	head, err := cr.Read()
@@ -235,6 +247,9 @@ func ReadCurve(r io.Reader, name string) (*Curve, error) {
 		ds, err2 := strconv.ParseFloat(strings.TrimSpace(rec[ir]), 64)
 		if err := errors.Join(err1, err2); err != nil {
 			return nil, fmt.Errorf("fatigue: S–N curve %q: line %d: %q, %q: both must be numbers", name, line, rec[ic], rec[ir])
+		}
+		if len(pts) == MaxCurvePoints {
+			return nil, fmt.Errorf("fatigue: S–N curve %q: line %d: more than %d points: a curve has a few", name, line, MaxCurvePoints)
 		}
 		pts = append(pts, Point{Cycles: n, Range: ds})
 	}

@@ -4,7 +4,10 @@
 // methods, mesh and solver statistics), the load–response plots (SVG and
 // PNG) and the fields of the kept states (fields/*.vtu, fields.pvd). A
 // comparison reads a run back from its directory (ReadSummary,
-// ReadHistory), so it needs no analysis in memory.
+// ReadHistory), so it needs no analysis in memory. Stage and
+// Staging.Commit put a result directory in place whole, marked by
+// MarkerFile; CheckOutDir refuses a directory that is not new, empty or
+// an earlier result.
 //
 //	res, err := segment.Run(ctx, spec, segment.Options{})
 //	sum, err := results.Write("joint_results", "joint.toml", res)

@@ -37,18 +37,14 @@ type MeshSummary struct {
 	MaxAspectRatio   float64 `json:"max_aspect_ratio"`
 }
 
-// SolverSummary counts the solver's work; the *_s fields are wall-clock
-// seconds, the only values of a run directory that differ between runs.
+// SolverSummary counts the solver's work. Wall-clock times are not in it:
+// they differ from run to run and would make the run directory differ, so
+// the command prints them on the terminal.
 type SolverSummary struct {
 	Increments         int     `json:"increments"`
 	NewtonIterations   int     `json:"newton_iterations"`
 	Factorizations     int     `json:"factorizations"`
-	AssemblySeconds    float64 `json:"assembly_s"`
-	ContactSeconds     float64 `json:"contact_s"`
-	FactorSeconds      float64 `json:"factorization_s"`
-	SolveSeconds       float64 `json:"solve_s"`
 	KrylovSteps        int     `json:"krylov_steps"`
-	AnalysisSeconds    float64 `json:"ordering_s"`
 	PenaltyMPaPerMM    float64 `json:"contact_penalty_MPa_per_mm"`
 	PreloadSolves      int     `json:"preload_solves"`
 	FieldStatesWritten int     `json:"field_states"`
@@ -64,11 +60,9 @@ func NewSummary(path string, r *segment.Result) Summary {
 		Mesh: MeshSummary{Nodes: len(r.Segment.Mesh().Nodes), Elements: len(r.Segment.Mesh().Elements), Equations: r.Equations,
 			Element: r.Segment.Spec().Mesh.Element, MinJacobianRatio: q.MinJacobianRatio, MaxAspectRatio: q.MaxAspectRatio},
 		Solver: SolverSummary{Increments: len(r.History) - 1, NewtonIterations: r.Timing.Iterations,
-			Factorizations: r.Timing.Factorizations, AssemblySeconds: r.Timing.Assembly.Seconds(),
-			ContactSeconds: r.Timing.Contact.Seconds(), FactorSeconds: r.Timing.Factorization.Seconds(),
-			SolveSeconds: r.Timing.Solve.Seconds(), KrylovSteps: r.Timing.KrylovSteps,
-			AnalysisSeconds: r.Timing.Analysis.Seconds(), PenaltyMPaPerMM: r.Segment.Penalty(),
-			PreloadSolves: r.Preload.Iterations, FieldStatesWritten: len(FieldStates(r))},
+			Factorizations: r.Timing.Factorizations, KrylovSteps: r.Timing.KrylovSteps,
+			PenaltyMPaPerMM: r.Segment.Penalty(),
+			PreloadSolves:   r.Preload.Iterations, FieldStatesWritten: len(FieldStates(r))},
 	}
 	if r.Failure != nil {
 		s.Failure = r.Failure.Error()

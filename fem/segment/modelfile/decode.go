@@ -3,6 +3,7 @@ package modelfile
 import (
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"reflect"
@@ -14,10 +15,20 @@ import (
 	"github.com/BurntSushi/toml"
 )
 
-// Load reads and decodes the model file at path. A *Error names
-// the file on every line.
+// MaxFileSize bounds the size of a model file, bytes. A model file is a
+// few kilobytes; the bound keeps a wrong file (a mesh, a log, a disk
+// image) from being read into memory whole.
+const MaxFileSize = 1 << 20
+
+// Load reads and decodes the model file at path, reading no more than
+// MaxFileSize bytes and one. A *Error names the file on every line.
 func Load(path string) (*Spec, error) {
-	data, err := os.ReadFile(path)
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("read model file: %w", err)
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
 	if err != nil {
 		return nil, fmt.Errorf("read model file: %w", err)
 	}
@@ -37,6 +48,9 @@ func Load(path string) (*Spec, error) {
 // the Spec's tags here rather than by toml's struct decoding, which accepts
 // keys in any letter case and stops at the first value of the wrong type.
 func Decode(data []byte) (*Spec, error) {
+	if len(data) > MaxFileSize {
+		return nil, &Error{Errs: []error{tooLarge(len(data))}}
+	}
 	var raw map[string]any
 	md, err := toml.Decode(string(data), &raw)
 	if err != nil {
@@ -80,12 +94,35 @@ func (e *Error) Error() string {
 // Unwrap gives the problems, for errors.Is and errors.As.
 func (e *Error) Unwrap() []error { return e.Errs }
 
+// tooLarge is the error of a model file of n bytes, more than MaxFileSize
+// (n is a lower bound when the file was read only that far).
+func tooLarge(n int) error {
+	return fmt.Errorf("file size = %d bytes or more: must be at most %d bytes (1 MiB); a model file is a few kilobytes of TOML", n, MaxFileSize)
+}
+
+// syntaxError is a TOML parse error on one line: the parser quotes the
+// offending text, which may hold a line break or other control
+// characters; they are shown escaped, as Go writes them.
 func syntaxError(err error) error {
 	var pe toml.ParseError
 	if errors.As(err, &pe) {
-		return fmt.Errorf("line %d: TOML syntax: %s", pe.Position.Line, pe.Message)
+		return fmt.Errorf("line %d: TOML syntax: %s", pe.Position.Line, oneLine(pe.Message))
 	}
-	return fmt.Errorf("TOML syntax: %w", err)
+	return fmt.Errorf("TOML syntax: %s", oneLine(err.Error()))
+}
+
+// oneLine escapes the control characters of s (\n, \t, \x00 …).
+func oneLine(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		if r < 0x20 || r == 0x7f || r == 0x85 || r == 0x2028 || r == 0x2029 {
+			q := strconv.QuoteRune(r)
+			b.WriteString(q[1 : len(q)-1])
+			continue
+		}
+		b.WriteRune(r)
+	}
+	return b.String()
 }
 
 // decoder copies parsed TOML tables into a Spec, checking every key and
@@ -156,12 +193,20 @@ func (d *decoder) table(path, ord string, raw map[string]any, v reflect.Value) {
 		p := joinKey(path, k)
 		i, ok := index[k]
 		if !ok {
-			d.errs = append(d.errs, fmt.Errorf("unknown key %q%s", p, suggest(k, names)))
+			d.errs = append(d.errs, fmt.Errorf("unknown key %q = %s: not a key of %s%s", p, tomlValue(raw[k]), tableName(path), suggest(k, names)))
 			continue
 		}
 		d.given[p] = true
 		d.value(p, joinKey(ord, k), raw[k], v.Field(i))
 	}
+}
+
+// tableName names the table at path for messages.
+func tableName(path string) string {
+	if path == "" {
+		return "the model file's top level"
+	}
+	return "[" + path + "]"
 }
 
 // value decodes one TOML value into v and reports whether it could.

@@ -63,6 +63,15 @@ func (c *checker) number(key string, x float64, ok bool, rule string) bool {
 
 func (c *checker) positive(key string, x float64) bool { return c.number(key, x, x > 0, "must be > 0") }
 
+// maxLength bounds every length of the model, mm: a joint is metres, not
+// kilometres, and a larger value only makes a mesh without end.
+const maxLength = 100_000
+
+// length checks a length: > 0 and at most maxLength.
+func (c *checker) length(key string, x float64) bool {
+	return c.positive(key, x) && c.number(key, x, x <= maxLength, fmt.Sprintf("must be at most %d mm (100 m)", maxLength))
+}
+
 func (c *checker) nonNegative(key string, x float64) bool {
 	return c.number(key, x, x >= 0, "must be ≥ 0")
 }
@@ -105,23 +114,23 @@ func (s *Spec) check(c *checker) {
 }
 
 func (s *Spec) checkTower(c *checker) {
-	c.positive("tower.diameter", s.Tower.Diameter)
+	c.length("tower.diameter", s.Tower.Diameter)
 	if c.usable("tower.bolts") && s.Tower.Bolts < 3 {
 		c.fail("tower.bolts", "tower.bolts = %d: must be ≥ 3", s.Tower.Bolts)
 	}
 }
 
 func (s *Spec) checkShell(c *checker) {
-	c.positive("shell.thickness", s.Shell.Thickness)
-	c.positive("shell.length", s.Shell.Length)
+	c.length("shell.thickness", s.Shell.Thickness)
+	c.length("shell.length", s.Shell.Length)
 	s.checkMaterialName(c, "shell.material", s.Shell.Material, false)
 	s.checkSteelThickness(c, "shell", s.Shell.Material, s.Shell.Thickness)
 }
 
 func (s *Spec) checkFlange(c *checker) {
-	c.positive("flange.thickness", s.Flange.Thickness)
-	c.positive("flange.a", s.Flange.A)
-	c.positive("flange.b", s.Flange.B)
+	c.length("flange.thickness", s.Flange.Thickness)
+	c.length("flange.a", s.Flange.A)
+	c.length("flange.b", s.Flange.B)
 	c.nonNegative("flange.neck_radius", s.Flange.NeckRadius)
 	s.checkMaterialName(c, "flange.material", s.Flange.Material, false)
 	s.checkSteelThickness(c, "flange", s.Flange.Material, s.Flange.Thickness)
@@ -182,12 +191,31 @@ func (s *Spec) checkBolt(c *checker) (bolt.Thread, bool) {
 	c.oneOf("bolt.grade", b.Grade, "8.8", "10.9", "12.9")
 	c.oneOf("bolt.thread", b.Thread, ThreadPartial, ThreadFull)
 	c.nonNegative("bolt.washer_thickness", b.WasherThickness)
-	c.positive("bolt.head_height", b.HeadHeight)
-	c.positive("bolt.nut_height", b.NutHeight)
+	s.checkBoltLength(c)
+	c.length("bolt.head_height", b.HeadHeight)
+	c.length("bolt.nut_height", b.NutHeight)
 	if b.Material != "" {
 		s.checkMaterialName(c, "bolt.material", b.Material, true)
 	}
 	return th, ok && c.usable("bolt.grade")
+}
+
+// checkBoltLength checks that head and nut, each on its washer, stay
+// beside the modelled shell stubs: the bolt cannot reach out of the model.
+func (s *Spec) checkBoltLength(c *checker) {
+	b := s.Bolt
+	if !c.usable("shell.length", "bolt.washer_thickness") || !(s.Shell.Length > 0) || !(b.WasherThickness >= 0) {
+		return
+	}
+	for _, part := range []struct {
+		key, what string
+		height    float64
+	}{{"bolt.head_height", "head", b.HeadHeight}, {"bolt.nut_height", "nut", b.NutHeight}} {
+		if c.usable(part.key) && b.WasherThickness+part.height > s.Shell.Length {
+			c.fail(part.key, "%s = %s: the %s on its washer (t_w + height = %s mm) reaches past the shell stub, shell.length = %s mm; the bolt must fit inside the model",
+				part.key, FormatNumber(part.height), part.what, FormatNumber(b.WasherThickness+part.height), FormatNumber(s.Shell.Length))
+		}
+	}
 }
 
 func (s *Spec) checkThread(c *checker) (bolt.Thread, bool) {
@@ -239,8 +267,8 @@ func (s *Spec) checkBoltFit(c *checker, d float64) {
 		c.fail("bolt.thread_length", "bolt.thread_length: missing (threaded length inside the clamp)")
 	case b.Thread == ThreadPartial && c.usable("flange.thickness", "bolt.washer_thickness"):
 		lk := 2 * (s.Flange.Thickness + b.WasherThickness)
-		c.number("bolt.thread_length", *b.ThreadLength, *b.ThreadLength >= 0 && *b.ThreadLength <= lk,
-			fmt.Sprintf("must lie in [0, l_k = %s mm], l_k = 2(t_f + t_w)", FormatNumber(lk)))
+		c.number("bolt.thread_length", *b.ThreadLength, *b.ThreadLength > 0 && *b.ThreadLength <= lk,
+			fmt.Sprintf("must lie in (0, l_k = %s mm], l_k = 2(t_f + t_w)", FormatNumber(lk)))
 	}
 }
 
@@ -304,7 +332,10 @@ func (s *Spec) checkPreload(c *checker, d Derived) {
 func (s *Spec) checkContact(c *checker) {
 	ct := s.Contact
 	c.nonNegative("contact.friction", ct.Friction)
-	c.nonNegative("contact.recess", ct.Recess)
+	if c.nonNegative("contact.recess", ct.Recess) && c.usable("flange.thickness") && s.Flange.Thickness > 0 {
+		c.number("contact.recess", ct.Recess, ct.Recess < s.Flange.Thickness/10,
+			fmt.Sprintf("must be less than a tenth of the flange thickness, t_f/10 = %s mm (a recess is a machined relief of a fraction of a millimetre)", FormatNumber(s.Flange.Thickness/10)))
+	}
 	c.oneOf("contact.recess_on", ct.RecessOn, RecessBoth, RecessUpper, RecessLower)
 	c.number("contact.taper", ct.Taper, math.Abs(ct.Taper) <= 5, "must lie within ±5° (a taper is a small tilt of the face)")
 	c.nonNegative("contact.parallel_gap", ct.ParallelGap)
@@ -363,17 +394,21 @@ func (s *Spec) checkOverlap(c *checker, idx []int) {
 		i, j := idx[k-1], idx[k]
 		if z[j].From < z[i].To {
 			lo, hi := min(i, j), max(i, j)
-			c.fail(fmt.Sprintf("contact.zones[%d]", hi), "contact.zones[%d] and contact.zones[%d] overlap: [%s, %s] and [%s, %s]",
+			c.fail(fmt.Sprintf("contact.zones[%d]", hi), "contact.zones[%d] and contact.zones[%d] = [%s, %s] and [%s, %s]: must not overlap",
 				lo, hi, FormatNumber(z[lo].From), FormatNumber(z[lo].To), FormatNumber(z[hi].From), FormatNumber(z[hi].To))
 		}
 	}
 }
 
+// maxIncrements bounds load.increments: every increment keeps a history
+// row and, by default, its fields.
+const maxIncrements = 10_000
+
 func (s *Spec) checkLoad(c *checker) {
 	l := s.Load
 	c.positive("load.max_displacement", l.MaxDisplacement)
-	if c.usable("load.increments") && l.Increments < 1 {
-		c.fail("load.increments", "load.increments = %d: must be ≥ 1", l.Increments)
+	if c.usable("load.increments") && (l.Increments < 1 || l.Increments > maxIncrements) {
+		c.fail("load.increments", "load.increments = %d: must lie in [1, %d]", l.Increments, maxIncrements)
 	}
 	c.number("load.stop_drop", l.StopDrop, l.StopDrop > 0 && l.StopDrop < 1, "must lie in (0, 1)")
 	c.oneOf("load.end_rotation", l.EndRotation, RotationFixed, RotationFree)
@@ -390,6 +425,10 @@ func (s *Spec) checkMesh(c *checker) {
 	c.positive("mesh.size", m.Size)
 	c.number("mesh.refine", m.Refine, m.Refine > 0 && m.Refine <= 1, "must lie in (0, 1]")
 	c.oneOf("mesh.element", m.Element, ElementQuad8, ElementQuad4)
+	if r := s.Flange.NeckRadius; c.usable("flange.neck_radius", "mesh.size", "mesh.refine") && r > 0 && r < m.Size*m.Refine {
+		c.fail("flange.neck_radius", "flange.neck_radius = %s: must be 0 (a sharp corner) or at least the fine element length mesh.size·mesh.refine = %s mm, so that the elements can follow the fillet",
+			FormatNumber(r), FormatNumber(m.Size*m.Refine))
+	}
 	c.oneOf("analysis.plane", s.Analysis.Plane, PlaneStress, PlaneStrain)
 	c.oneOf("analysis.materials", s.Analysis.Materials, Elastoplastic, ElasticOnly)
 	c.number("fatigue.gamma_mf", s.Fatigue.GammaMf, s.Fatigue.GammaMf >= 1, "must be ≥ 1 (EN 1993-1-9 Table 3.1 recommends 1.00 to 1.35)")

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strings"
 	"testing"
 )
@@ -34,6 +35,17 @@ type brokenModel struct {
 	Name  string   `json:"name"`
 	Edits []string `json:"edits"` // old, new, old, new, …
 	Want  string   `json:"want"`
+	// Text, if given, is the whole file instead of edits of the demo.
+	Text *string `json:"text"`
+}
+
+// text is the broken model file: Text, or the edits applied to base.
+func (c brokenModel) text(t *testing.T, base string) string {
+	t.Helper()
+	if c.Text != nil {
+		return *c.Text
+	}
+	return edit(t, base, c.Edits...)
 }
 
 // brokenModels are read from testdata/broken_models.json, which the
@@ -54,7 +66,7 @@ func brokenModels(t *testing.T) []brokenModel {
 func TestBrokenModels(t *testing.T) {
 	base := flatModel(t)
 	for _, c := range brokenModels(t) {
-		_, err := Decode([]byte(edit(t, base, c.Edits...)))
+		_, err := Decode([]byte(c.text(t, base)))
 		if err == nil {
 			t.Errorf("%s: no error", c.Name)
 			continue
@@ -88,7 +100,7 @@ func TestAllErrorsAtOnce(t *testing.T) {
 		`tower.bolts = "many": wrong type: a string where a whole number belongs`,
 		"contact.zones[0]: from 40 > to 30",
 		"preload.force and preload.fraction: give exactly one of",
-		"load.increments = 0: must be ≥ 1",
+		"load.increments = 0: must lie in [1, 10000]",
 	}
 	_, err := Decode([]byte(text))
 	if err == nil {
@@ -121,5 +133,29 @@ func TestValidateBuiltSpec(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), w) {
 			t.Errorf("error lacks %q: %v", w, err)
 		}
+	}
+}
+
+// A file far larger than a model file (100 MB) is refused for its size
+// after reading MaxFileSize bytes and one: Load allocates about that
+// much, not the file.
+func TestLoadReadsBounded(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "huge.toml")
+	if err := os.WriteFile(path, []byte(flatModel(t)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Truncate(path, 100<<20); err != nil {
+		t.Fatal(err)
+	}
+	var before, after runtime.MemStats
+	runtime.ReadMemStats(&before)
+	_, err := Load(path)
+	runtime.ReadMemStats(&after)
+	want := "file size = 1048577 bytes or more: must be at most 1048576 bytes"
+	if err == nil || !strings.Contains(err.Error(), want) {
+		t.Fatalf("error %v, want %q", err, want)
+	}
+	if got := after.TotalAlloc - before.TotalAlloc; got > 8*MaxFileSize {
+		t.Errorf("Load allocated %d bytes for a 100 MB file, want at most %d", got, 8*MaxFileSize)
 	}
 }

@@ -1,0 +1,179 @@
+package results
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"flangeseg/post"
+)
+
+// MarkerFile names the file that marks a directory as a flangeseg result.
+// Every result directory the command writes holds it; a directory without
+// it that holds anything is not flangeseg's to replace.
+const MarkerFile = "flangeseg_result.txt"
+
+// Kinds of result directory, the first line of the marker file names one.
+const (
+	KindRun        = "run"        // one model's run
+	KindComparison = "comparison" // runs side by side (compare, demo) and their comparison
+	KindFatigue    = "fatigue"    // a bolt fatigue assessment
+	KindMesh       = "mesh"       // a mesh to look at
+)
+
+// ErrNotResult is wrapped by the error of an output directory that exists
+// and holds something other than an earlier flangeseg result.
+var ErrNotResult = errors.New("holds files that are not a flangeseg result")
+
+// CheckOutDir reports whether dir may receive a result: it does not
+// exist, is empty, or is an earlier result (it holds MarkerFile). An error
+// wrapping ErrNotResult says what is in the way.
+func CheckOutDir(dir string) error {
+	info, err := os.Stat(dir)
+	switch {
+	case errors.Is(err, os.ErrNotExist):
+		return nil
+	case err != nil:
+		return fmt.Errorf("output directory %s: %w", dir, err)
+	case !info.IsDir():
+		return fmt.Errorf("output directory %s: is a file: %w; give -o a new or empty directory, or an earlier result", dir, ErrNotResult)
+	}
+	if IsResult(dir) {
+		return nil
+	}
+	names, err := dirNames(dir, 3)
+	if err != nil {
+		return fmt.Errorf("output directory %s: %w", dir, err)
+	}
+	if len(names) == 0 {
+		return nil
+	}
+	return fmt.Errorf("output directory %s %w (it has %s, and no %s): flangeseg replaces only an earlier result of its own; give -o a new or empty directory",
+		dir, ErrNotResult, strings.Join(names, ", "), MarkerFile)
+}
+
+// IsResult reports whether dir holds the marker of a flangeseg result.
+func IsResult(dir string) bool {
+	info, err := os.Stat(filepath.Join(dir, MarkerFile))
+	return err == nil && info.Mode().IsRegular()
+}
+
+// dirNames returns up to n names of dir's entries (n+1 means "and more").
+func dirNames(dir string, n int) ([]string, error) {
+	f, err := os.Open(dir)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	names, err := f.Readdirnames(n + 1)
+	if err != nil && !errors.Is(err, io.EOF) {
+		return nil, err
+	}
+	if len(names) > n {
+		names = append(names[:n], "…")
+	}
+	return names, nil
+}
+
+// Mark writes the marker file of a result of the given kind into dir.
+func Mark(dir, kind string) error {
+	return post.WriteFileAtomic(filepath.Join(dir, MarkerFile), func(w io.Writer) error {
+		_, err := fmt.Fprintf(w, "%s\nThis directory is a flangeseg %s result, written by flangeseg %s.\nflangeseg replaces it whole when told to write here again (-o); it refuses a directory without this file that holds anything.\n",
+			kind, kind, post.Version)
+		return err
+	})
+}
+
+// Staging is a result directory being written under a temporary name
+// beside its final place (Dir), so that the final directory changes only
+// once, whole, when Commit renames it into place: an interrupted or
+// failed write never leaves old and new files mixed.
+type Staging struct {
+	Final string // where the result goes
+	Dir   string // where it is written meanwhile
+}
+
+// Stage checks final (CheckOutDir) and creates the temporary directory
+// beside it, named .NAME.writing-*.
+func Stage(final string) (*Staging, error) {
+	if err := CheckOutDir(final); err != nil {
+		return nil, err
+	}
+	parent, base := filepath.Split(filepath.Clean(final))
+	if parent == "" {
+		parent = "."
+	}
+	if err := os.MkdirAll(parent, 0o755); err != nil {
+		return nil, fmt.Errorf("output directory %s: %w", final, err)
+	}
+	dir, err := os.MkdirTemp(parent, "."+base+".writing-")
+	if err != nil {
+		return nil, fmt.Errorf("output directory %s: %w", final, err)
+	}
+	if err := os.Chmod(dir, 0o755); err != nil {
+		os.RemoveAll(dir)
+		return nil, fmt.Errorf("output directory %s: %w", final, err)
+	}
+	return &Staging{Final: final, Dir: dir}, nil
+}
+
+// Empty reports whether nothing has been written into the staging
+// directory.
+func (s *Staging) Empty() bool {
+	names, err := dirNames(s.Dir, 1)
+	return err == nil && len(names) == 0
+}
+
+// Discard removes the staging directory; the final one stays as it was.
+func (s *Staging) Discard() error { return os.RemoveAll(s.Dir) }
+
+// Commit marks the staging directory as a result of kind and puts it in
+// place of the final directory, which, if it exists, must still be empty
+// or an earlier result; that is removed whole.
+func (s *Staging) Commit(kind string) error {
+	if err := Mark(s.Dir, kind); err != nil {
+		return err
+	}
+	if err := CheckOutDir(s.Final); err != nil {
+		return err
+	}
+	old := ""
+	if _, err := os.Stat(s.Final); err == nil {
+		// Rename the old result aside first: a rename onto a directory
+		// that is not empty fails.
+		old = s.Dir + ".old"
+		if err := os.Rename(s.Final, old); err != nil {
+			return fmt.Errorf("output directory %s: moving the earlier result aside: %w", s.Final, err)
+		}
+	}
+	if err := os.Rename(s.Dir, s.Final); err != nil {
+		if old != "" {
+			err = errors.Join(err, os.Rename(old, s.Final))
+		}
+		return fmt.Errorf("output directory %s: %w", s.Final, err)
+	}
+	if old != "" {
+		if err := os.RemoveAll(old); err != nil {
+			return fmt.Errorf("output directory %s: removing the earlier result (moved to %s): %w", s.Final, old, err)
+		}
+	}
+	return nil
+}
+
+// WriteStaged writes a result of kind into dir whole: it stages dir
+// (Stage), lets write fill the staging directory and commits it; if
+// write fails, the staging directory is removed and dir stays as it was.
+func WriteStaged(dir, kind string, write func(staged string) error) error {
+	st, err := Stage(dir)
+	if err != nil {
+		return err
+	}
+	if err := write(st.Dir); err != nil {
+		st.Discard()
+		return err
+	}
+	return st.Commit(kind)
+}
