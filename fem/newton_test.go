@@ -59,17 +59,9 @@ func barModel(t *testing.T, msh *mesh.Mesh) (*Model, RigidEdge) {
 	return m, edge
 }
 
-// A bar held at both ends with a shortened slice carries the uniaxial force
-// σ·A with σ = E·ε·l_slice/L (springs in series, statics); Preload finds the
-// eigenstrain for a target force within the tolerance asked.
-func TestPreloadBar(t *testing.T) {
-	msh := stackedBar(t)
-	m, edge := barModel(t, msh)
-	s, err := NewSolver(m, nil, NewtonOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	// The section at z = 80 (top block), elements above it.
+// sliceTopForce measures the axial force of the stacked bar in the
+// section at the slice's top (z = 55), from the elements above it.
+func sliceTopForce(s *Solver, msh *mesh.Mesh) func() (float64, error) {
 	var above, cut []int
 	for e, el := range msh.Elements {
 		z := 0.0
@@ -85,10 +77,23 @@ func TestPreloadBar(t *testing.T) {
 			cut = append(cut, n)
 		}
 	}
-	force := func() (float64, error) {
+	return func() (float64, error) {
 		f, _, _, err := s.SectionForce(above, cut, 5)
 		return f, err
 	}
+}
+
+// A bar held at both ends with a shortened slice carries the uniaxial force
+// σ·A with σ = E·ε·l_slice/L (springs in series, statics); Preload finds the
+// eigenstrain for a target force within the tolerance asked.
+func TestPreloadBar(t *testing.T) {
+	msh := stackedBar(t)
+	m, edge := barModel(t, msh)
+	s, err := NewSolver(m, nil, NewtonOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	force := sliceTopForce(s, msh)
 	const target = 12000.0 // N
 	res, err := s.Preload("slice", target, force, PreloadOptions{Tolerance: 0.005})
 	if err != nil {
@@ -122,21 +127,7 @@ func TestPreloadCorrectionAlongSlope(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var above, cut []int
-	for e, el := range msh.Elements {
-		if msh.Nodes[el.Nodes[0]].Z >= 55-1e-9 && msh.Nodes[el.Nodes[2]].Z >= 55-1e-9 {
-			above = append(above, e)
-		}
-	}
-	for n, p := range msh.Nodes {
-		if math.Abs(p.Z-55) < 1e-9 {
-			cut = append(cut, n)
-		}
-	}
-	force := func() (float64, error) {
-		f, _, _, err := s.SectionForce(above, cut, 5)
-		return f, err
-	}
+	force := sliceTopForce(s, msh)
 	first, err := s.Preload("slice", 12000, force, PreloadOptions{Tolerance: 0.005})
 	if err != nil {
 		t.Fatal(err)

@@ -297,7 +297,7 @@ func (d *decoder) tableMap(path, ord string, raw map[string]any, v reflect.Value
 
 func (d *decoder) wrongType(path string, raw any, want string) bool {
 	d.bad[path] = true
-	d.errs = append(d.errs, fmt.Errorf("%s = %s: wrong type: %s where %s belongs", path, tomlValue(raw), tomlType(raw), want))
+	d.errs = append(d.errs, fmt.Errorf("%s = %s: wrong type: %s where %s belongs", path, tomlValue(raw), TypeName(raw), want))
 	return false
 }
 
@@ -323,8 +323,11 @@ func tomlValue(raw any) string {
 	return fmt.Sprint(raw)
 }
 
-func tomlType(raw any) string {
+// TypeName names the TOML type of a decoded value, for messages.
+func TypeName(raw any) string {
 	switch raw.(type) {
+	case nil:
+		return "nothing"
 	case string:
 		return "a string"
 	case int64:

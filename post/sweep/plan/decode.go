@@ -2,6 +2,7 @@ package plan
 
 import (
 	"errors"
+	"flangeseg/fem/segment/modelfile"
 	"fmt"
 	"math"
 	"regexp"
@@ -48,7 +49,7 @@ func (d *decoder) str(path string, table map[string]any, key string) (string, bo
 	}
 	s, isStr := raw.(string)
 	if !isStr {
-		d.fail("%s = %s: wrong type: %s where a string belongs", join(path, key), Show(raw), typeName(raw))
+		d.fail("%s = %s: wrong type: %s where a string belongs", join(path, key), Show(raw), modelfile.TypeName(raw))
 		return "", false
 	}
 	return s, true
@@ -103,14 +104,14 @@ func (d *decoder) tables(key string, raw any) []map[string]any {
 		for i, e := range x {
 			m, ok := e.(map[string]any)
 			if !ok {
-				d.fail("%s[%d] = %s: wrong type: %s where a table belongs", key, i, Show(e), typeName(e))
+				d.fail("%s[%d] = %s: wrong type: %s where a table belongs", key, i, Show(e), modelfile.TypeName(e))
 				continue
 			}
 			out = append(out, m)
 		}
 		return out
 	}
-	d.fail("%s = %s: wrong type: %s where an array of tables belongs ([[%s]])", key, Show(raw), typeName(raw), key)
+	d.fail("%s = %s: wrong type: %s where an array of tables belongs ([[%s]])", key, Show(raw), modelfile.TypeName(raw), key)
 	return nil
 }
 
@@ -166,7 +167,7 @@ func (d *decoder) values(at string, raw any) []any {
 				list = append(list, e)
 			}
 		} else {
-			d.fail("%s = %s: wrong type: %s where an array belongs", at, Show(raw), typeName(raw))
+			d.fail("%s = %s: wrong type: %s where an array belongs", at, Show(raw), modelfile.TypeName(raw))
 			return nil
 		}
 	}
@@ -190,7 +191,7 @@ func (d *decoder) values(at string, raw any) []any {
 func (d *decoder) rangeValues(at string, raw any, kind keyType) []any {
 	t, ok := raw.(map[string]any)
 	if !ok {
-		d.fail("%s = %s: wrong type: %s where a table belongs ({from, to, steps})", at, Show(raw), typeName(raw))
+		d.fail("%s = %s: wrong type: %s where a table belongs ({from, to, steps})", at, Show(raw), modelfile.TypeName(raw))
 		return nil
 	}
 	d.known(at, t, "from", "to", "steps", "spacing")
@@ -266,7 +267,7 @@ func (d *decoder) number(at string, t map[string]any, key string) (float64, bool
 		}
 		return x, true
 	default:
-		d.fail("%s.%s = %s: wrong type: %s where a number belongs", at, key, Show(x), typeName(x))
+		d.fail("%s.%s = %s: wrong type: %s where a number belongs", at, key, Show(x), modelfile.TypeName(x))
 	}
 	return 0, false
 }

@@ -151,24 +151,3 @@ func Text(v any) string {
 }
 
 func formatNumber(x float64) string { return modelfile.FormatNumber(x) }
-
-func typeName(v any) string {
-	switch v.(type) {
-	case string:
-		return "a string"
-	case int64:
-		return "an integer"
-	case float64:
-		return "a float"
-	case bool:
-		return "a boolean"
-	case map[string]any:
-		return "a table"
-	case nil:
-		return "nothing"
-	}
-	if rv := reflect.ValueOf(v); rv.Kind() == reflect.Slice {
-		return "an array"
-	}
-	return "a date or time"
-}

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"strings"
 
 	"flangeseg/fem/segment/modelfile"
 )
@@ -60,28 +59,9 @@ type Case struct {
 }
 
 // Error lists every problem of a plan and its cases, one per line, each
-// prefixed with the plan file's name.
-type Error struct {
-	File string
-	Errs []error
-}
-
-func (e *Error) Error() string {
-	var b strings.Builder
-	for i, err := range e.Errs {
-		if i > 0 {
-			b.WriteByte('\n')
-		}
-		if e.File != "" {
-			b.WriteString(e.File + ": ")
-		}
-		b.WriteString(err.Error())
-	}
-	return b.String()
-}
-
-// Unwrap gives the problems, for errors.Is and errors.As.
-func (e *Error) Unwrap() []error { return e.Errs }
+// prefixed with the plan file's name: the model file's error type, so a
+// plan's problems read like a model's.
+type Error = modelfile.Error
 
 // Load reads the plan file at path and its base model, and makes its
 // cases. Every problem is reported at once in a *Error: of the plan
