@@ -157,3 +157,45 @@ func lastLines(s string, n int) string {
 	lines := strings.Split(strings.TrimRight(s, "\n"), "\n")
 	return strings.Join(lines[max(0, len(lines)-n):], "\n")
 }
+
+// SIGINT during `sweep`: the case in hand stops, the sweep says so and
+// exits 3, nothing half-written is left; the same command run again does
+// only what is missing (the cases finished before are "already done")
+// and ends with every case in sweep.csv.
+func TestInterruptSweep(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the binary")
+	}
+	dir := t.TempDir()
+	plan, err := filepath.Abs(filepath.Join("..", "..", "testdata", "sweep", "array_plan.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	args := []string{"sweep", plan, "-o", "out", "--jobs", "1"}
+	c := startChild(t, dir, nil, args...)
+	c.waitFor(t, "case 1/8 ", 2*time.Minute)
+	if err := c.cmd.Process.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	code, _, stderr := c.wait(t)
+	if code != exitAnalysis || !strings.Contains(stderr, "interrupted") || !strings.Contains(stderr, "run the same command again") {
+		t.Fatalf("exit %d, want %d and the interruption said:\n%s", code, exitAnalysis, lastLines(stderr, 4))
+	}
+	noTemporaries(t, dir)
+	again := startChild(t, dir, nil, args...)
+	code, _, stderr = again.wait(t)
+	if code != exitOK {
+		t.Fatalf("resumed: exit %d\n%s", code, lastLines(stderr, 6))
+	}
+	if !strings.Contains(stderr, "case 1/8 ") || !strings.Contains(stderr, "already done") {
+		t.Errorf("the resumed sweep did not find the finished case done:\n%s", stderr)
+	}
+	data, err := os.ReadFile(filepath.Join(dir, "out", "sweep.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rows := strings.Count(strings.TrimSpace(string(data)), "\n"); rows != 8 {
+		t.Errorf("sweep.csv has %d cases, want 8", rows)
+	}
+	noTemporaries(t, dir)
+}

@@ -1,16 +1,13 @@
 package main
 
 import (
-	"context"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"os"
-	"os/signal"
 	"path/filepath"
 	"strings"
-	"syscall"
 
 	"flangeseg/post/sweep"
 	"flangeseg/post/sweep/plan"
@@ -173,8 +170,10 @@ func listCases(w io.Writer, cases []plan.Case, shard sweep.Shard) {
 }
 
 func runSweepCases(p *plan.Plan, cases []plan.Case, f sweepFlags, shard sweep.Shard, stdout, stderr io.Writer) int {
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
-	defer stop()
+	// As run, demo and compare: the first signal stops every case at its
+	// next safe point, a second one ends the process at once.
+	ctx, release := interruptible()
+	defer release()
 	total, n := 0, 0
 	for _, c := range cases {
 		if shard.Has(c.Index) {

@@ -54,7 +54,7 @@ func Decode(data []byte) (*Spec, error) {
 	var raw map[string]any
 	md, err := toml.Decode(string(data), &raw)
 	if err != nil {
-		return nil, &Error{Errs: []error{syntaxError(err)}}
+		return nil, &Error{Errs: []error{SyntaxError(err)}}
 	}
 	d := newDecoder(md)
 	var s Spec
@@ -100,10 +100,10 @@ func tooLarge(n int) error {
 	return fmt.Errorf("file size = %d bytes or more: must be at most %d bytes (1 MiB); a model file is a few kilobytes of TOML", n, MaxFileSize)
 }
 
-// syntaxError is a TOML parse error on one line: the parser quotes the
+// SyntaxError is a TOML parse error on one line: the parser quotes the
 // offending text, which may hold a line break or other control
 // characters; they are shown escaped, as Go writes them.
-func syntaxError(err error) error {
+func SyntaxError(err error) error {
 	var pe toml.ParseError
 	if errors.As(err, &pe) {
 		return fmt.Errorf("line %d: TOML syntax: %s", pe.Position.Line, oneLine(pe.Message))

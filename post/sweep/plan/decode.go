@@ -1,7 +1,6 @@
 package plan
 
 import (
-	"errors"
 	"flangeseg/fem/segment/modelfile"
 	"fmt"
 	"math"
@@ -18,8 +17,10 @@ const (
 	Log    = "log"
 )
 
-// MaxCases bounds the cases of one plan: a grid multiplies quickly.
-const MaxCases = 100000
+// MaxCases bounds the cases of one plan: a grid multiplies quickly, and
+// every case is held in memory with its model (some 10 kB each) from the
+// plan's loading on; a study of more is split into several plans.
+const MaxCases = 10000
 
 // decoder checks a parsed plan key by key, collecting every problem.
 type decoder struct{ errs []error }
@@ -60,11 +61,7 @@ func decode(text []byte) (*Plan, []error) {
 	p := &Plan{Combine: Grid}
 	var raw map[string]any
 	if _, err := toml.Decode(string(text), &raw); err != nil {
-		var pe toml.ParseError
-		if errors.As(err, &pe) {
-			return p, []error{fmt.Errorf("line %d: TOML syntax: %s", pe.Position.Line, pe.Message)}
-		}
-		return p, []error{fmt.Errorf("TOML syntax: %w", err)}
+		return p, []error{modelfile.SyntaxError(err)}
 	}
 	d := &decoder{}
 	d.known("", raw, "title", "base", "combine", "set", "vary", "case")
