@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"flangeseg/post/results"
 	"flangeseg/post/sweep"
 	"flangeseg/post/sweep/plan"
 )
@@ -64,6 +65,21 @@ func runSweep(args []string, stdout, stderr io.Writer) int {
 		return exitOK
 	case f.collect:
 		return collectSweep(p, cases, f.dir, stdout, stderr)
+	}
+	// DIR is marked as a sweep's before any case runs, so that the same
+	// command run again (a resume, another shard) finds its own result
+	// there, while a directory of anything else is refused.
+	if err := results.CheckOutDir(f.dir); err != nil {
+		fmt.Fprintf(stderr, "flangeseg sweep: %v\n", err)
+		return exitBadInput
+	}
+	err = os.MkdirAll(f.dir, 0o755)
+	if err == nil {
+		err = results.Mark(f.dir, results.KindSweep)
+	}
+	if err != nil {
+		fmt.Fprintf(stderr, "flangeseg sweep: %v\n", err)
+		return exitAnalysis
 	}
 	return runSweepCases(p, cases, f, shard, stdout, stderr)
 }

@@ -22,6 +22,7 @@ const (
 	KindComparison = "comparison" // runs side by side (compare, demo) and their comparison
 	KindFatigue    = "fatigue"    // a bolt fatigue assessment
 	KindMesh       = "mesh"       // a mesh to look at
+	KindSweep      = "sweep"      // a sweep's cases and tables, resumed in place
 )
 
 // ErrNotResult is wrapped by the error of an output directory that exists
