@@ -215,7 +215,7 @@ func (s *Solver) Preload(region string, target float64, force func() (float64, e
 	}
 	opt.defaults()
 	res := PreloadResult{Eigenstrain: s.m.Eigenstrain(region)[1], Slope: math.Min(opt.Slope, 0)}
-	path := eigenPath{s: s, region: region, maxCuts: opt.MaxCuts, res: &res, force: force, touch: math.NaN()}
+	path := eigenPath{s: s, region: region, maxCuts: opt.MaxCuts, res: &res, force: force}
 	f := 0.0
 	if res.Eigenstrain != 0 {
 		var err error
@@ -258,11 +258,11 @@ func (s *Solver) Preload(region string, target float64, force func() (float64, e
 		if !math.IsInf(lo, 0) && !math.IsInf(hi, 0) && !(next < lo && next > hi) {
 			next = (lo + hi) / 2 // the secant left the bracket
 		}
-		path.touch = math.NaN()
+		touch := math.NaN()
 		if have0 && g0 != nil {
-			path.touch = touchLimit(e0, e1, next, g0, g1)
+			touch = touchLimit(e0, e1, next, g0, g1)
 		}
-		if err := path.moveTo(next); err != nil {
+		if err := path.moveTo(next, touch); err != nil {
 			return res, err
 		}
 		if math.Abs(res.Force-f1) < 0.5*target/float64(opt.Steps) {
@@ -325,10 +325,10 @@ func (s *Solver) Shorten(region string, shortening, sliceLength float64, steps i
 	if steps < 1 {
 		steps = 4
 	}
-	path := eigenPath{s: s, region: region, maxCuts: 6, res: &res, force: force, touch: math.NaN()}
+	path := eigenPath{s: s, region: region, maxCuts: 6, res: &res, force: force}
 	from, to := res.Eigenstrain, -shortening/sliceLength
 	for i := 1; i <= steps; i++ {
-		if err := path.moveTo(from + (to-from)*float64(i)/float64(steps)); err != nil {
+		if err := path.moveTo(from+(to-from)*float64(i)/float64(steps), math.NaN()); err != nil {
 			return res, err
 		}
 	}
@@ -346,15 +346,14 @@ type eigenPath struct {
 	// eigenstrain change between the two, for the predictor.
 	prev []float64
 	step float64
-	// touch, if not NaN, is where the next point of a closing face is
-	// expected to touch (touchLimit): a first try of a move that fails is
-	// cut back to it rather than halved, where it lies nearer.
-	touch float64
 }
 
 // moveTo brings the eigenstrain to e through converged states, halving a
-// step that does not converge (at most maxCuts times in a row).
-func (p *eigenPath) moveTo(e float64) error {
+// step that does not converge (at most maxCuts times in a row). touch, if
+// not NaN, is where the next point of a closing face is expected to touch
+// (touchLimit): a failing first try is cut back to it rather than halved,
+// where it lies nearer.
+func (p *eigenPath) moveTo(e, touch float64) error {
 	s := p.s
 	defer s.patience()()
 	cuts := 0
@@ -379,10 +378,10 @@ func (p *eigenPath) moveTo(e float64) error {
 			if !IsNotConverged(err) || cuts == p.maxCuts {
 				return fmt.Errorf("preload step from slice strain %.4g to %.4g: %w", at, at+d, err)
 			}
-			if t := p.touch; cuts == 0 && (t-at)*d > 0 && math.Abs(t-at) < math.Abs(d)/2 {
+			if cuts == 0 && (touch-at)*d > 0 && math.Abs(touch-at) < math.Abs(d)/2 {
 				// A step past the touch of a closing face: its solve
 				// started from deep penetration. Cut back to the touch.
-				e, p.touch = t, math.NaN()
+				e, touch = touch, math.NaN()
 				s.log(fmt.Sprintf("  not converged (%v); step cut back to where the next point of the face touches", err))
 				continue
 			}

@@ -3,9 +3,10 @@ package plan
 import (
 	"flangeseg/fem/segment/modelfile"
 	"fmt"
+	"maps"
 	"math"
 	"regexp"
-	"sort"
+	"slices"
 	"strconv"
 
 	"github.com/BurntSushi/toml"
@@ -31,7 +32,7 @@ func (d *decoder) fail(format string, args ...any) {
 
 // known reports keys of table (at path) that are not in keys.
 func (d *decoder) known(path string, table map[string]any, keys ...string) {
-	for _, k := range sortedKeys(table) {
+	for _, k := range slices.Sorted(maps.Keys(table)) {
 		found := false
 		for _, w := range keys {
 			found = found || k == w
@@ -211,11 +212,11 @@ func (d *decoder) rangeValues(at string, raw any, kind keyType) []any {
 		return nil
 	}
 	if spacing == Log && (from <= 0 || to <= 0) {
-		d.fail("%s: spacing = \"log\" with from = %s and to = %s: both must be > 0", at, formatNumber(from), formatNumber(to))
+		d.fail("%s: spacing = \"log\" with from = %s and to = %s: both must be > 0", at, modelfile.FormatNumber(from), modelfile.FormatNumber(to))
 		return nil
 	}
 	if from == to {
-		d.fail("%s.to = %s: equals from: a range needs two different ends", at, formatNumber(to))
+		d.fail("%s.to = %s: equals from: a range needs two different ends", at, modelfile.FormatNumber(to))
 		return nil
 	}
 	out := make([]any, steps)
@@ -223,7 +224,7 @@ func (d *decoder) rangeValues(at string, raw any, kind keyType) []any {
 		x := rangeValue(from, to, i, steps, spacing)
 		if kind == wholeKey {
 			if x != math.Trunc(x) {
-				d.fail("%s: value %d is %s, but the key takes whole numbers: choose from, to and steps that give whole steps", at, i+1, formatNumber(x))
+				d.fail("%s: value %d is %s, but the key takes whole numbers: choose from, to and steps that give whole steps", at, i+1, modelfile.FormatNumber(x))
 				return nil
 			}
 			out[i] = int64(x)
@@ -334,7 +335,7 @@ func (d *decoder) settings(at string, raw any) []Setting {
 // flatten turns nested tables into dotted keys, sorted by key.
 func flatten(prefix string, m map[string]any) []Setting {
 	var out []Setting
-	for _, k := range sortedKeys(m) {
+	for _, k := range slices.Sorted(maps.Keys(m)) {
 		key := join(prefix, k)
 		if sub, ok := m[k].(map[string]any); ok && len(sub) > 0 {
 			out = append(out, flatten(key, sub)...)
@@ -384,15 +385,6 @@ func (p *Plan) combined() int {
 		}
 	}
 	return n
-}
-
-func sortedKeys(m map[string]any) []string {
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	return keys
 }
 
 func join(path, key string) string {

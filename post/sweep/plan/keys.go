@@ -2,9 +2,10 @@ package plan
 
 import (
 	"fmt"
+	"maps"
 	"reflect"
 	"regexp"
-	"sort"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -111,12 +112,7 @@ func Show(v any) string {
 		return "(nothing)"
 	case map[string]any:
 		parts := make([]string, 0, len(x))
-		keys := make([]string, 0, len(x))
-		for k := range x {
-			keys = append(keys, k)
-		}
-		sort.Strings(keys)
-		for _, k := range keys {
+		for _, k := range slices.Sorted(maps.Keys(x)) {
 			parts = append(parts, k+" = "+Show(x[k]))
 		}
 		return "{" + strings.Join(parts, ", ") + "}"
@@ -132,7 +128,7 @@ func Text(v any) string {
 	case int64:
 		return strconv.FormatInt(x, 10)
 	case float64:
-		return formatNumber(x)
+		return modelfile.FormatNumber(x)
 	case bool:
 		return strconv.FormatBool(x)
 	case time.Time:
@@ -149,5 +145,3 @@ func Text(v any) string {
 	}
 	return fmt.Sprint(v)
 }
-
-func formatNumber(x float64) string { return modelfile.FormatNumber(x) }
