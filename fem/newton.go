@@ -293,6 +293,18 @@ func (s *Solver) newton(fext []float64, limit int) (int, error) {
 			prev, step = math.Inf(1), 1
 			continue
 		}
+		// With points frozen, the rest of the solve is smooth and the
+		// frozen points' laws can be checked as soon as the residual is
+		// small, not only at the tolerance: a point that is clearly off its
+		// law (by far more than the residual could move it) is corrected
+		// an iteration or two earlier, and the quadratic tail is spent
+		// once, on the corrected set.
+		if s.anyFrozen && rel < earlyCheckBelow &&
+			!s.settled(math.Max(frozenTolerance*s.opt.Tolerance*ref, earlyCheckMargin*nr)) {
+			s.forcesValid = false
+			prev, step = math.Inf(1), 1
+			continue
+		}
 		// Checked before the line search, so that the steps it cuts back
 		// count against the limit too.
 		if math.IsNaN(rel) || it > limit {
@@ -334,7 +346,7 @@ func (s *Solver) newton(fext []float64, limit int) (int, error) {
 		}
 		prev, step = nr, 1
 		copy(last, s.u)
-		if it >= freezeAfter && rel < freezeBelow*s.watch.first && s.corrections <= s.maxCorrections() {
+		if it >= freezeAfter && (rel < freezeBelow*s.watch.first || it >= freezeStalled && !s.patient) && s.corrections <= s.maxCorrections() {
 			// Freezing suits a few points chattering at a kink; where many
 			// flip, the active set is still being found, and freezing it
 			// would only fix a wrong guess.
@@ -459,8 +471,15 @@ const (
 	// 570 kN preload.
 	freezeAfter = 4
 	freezeBelow = 1e-2
-	maxFreeze   = 64
-	maxThaws    = 6
+	// earlyCheckBelow: the relative residual below which the laws of
+	// frozen points are checked before convergence, against the larger of
+	// the converged check's tolerance and earlyCheckMargin times the
+	// residual's norm.
+	earlyCheckBelow  = 1e-4
+	earlyCheckMargin = 10
+	freezeStalled    = 8
+	maxFreeze        = 64
+	maxThaws         = 6
 	// patientIterations, patientCorrections: the limits under patience.
 	patientIterations  = 60
 	patientCorrections = 20

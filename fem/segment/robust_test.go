@@ -139,7 +139,9 @@ func TestRobustnessFamily(t *testing.T) {
 		}
 		t.Run(c.file, func(t *testing.T) {
 			t.Parallel()
-			checkRobust(t, c, runRobust(t, c))
+			r, h := runRobustLogged(t, c)
+			checkRobust(t, c, r)
+			checkIterations(t, c, r, h)
 		})
 	}
 }
@@ -159,6 +161,7 @@ func BenchmarkRobustness(b *testing.B) {
 				r, halvings = runRobustLogged(b, c)
 			}
 			checkRobust(b, c, r)
+			checkIterations(b, c, r, halvings)
 			var its []float64
 			cuts := 0
 			for _, row := range r.History[min(1, len(r.History)):] {
@@ -173,6 +176,31 @@ func BenchmarkRobustness(b *testing.B) {
 			b.ReportMetric(float64(cuts), "max-cuts/inc")
 			b.ReportMetric(float64(halvings.most), "max-cuts/step")
 		})
+	}
+}
+
+// Aims of the robust solve for every joint of the family (issue "Every
+// joint the model file can describe reaches its load", item 2): no
+// converged increment of the tension stage above maxIncrementIterations
+// Newton iterations, and no preload step, release step or increment
+// halved or cut more than maxCutsInRow times in a row.
+const (
+	maxIncrementIterations = 15
+	maxCutsInRow           = 2
+)
+
+// checkIterations checks a completed run of the family against those aims.
+func checkIterations(t testing.TB, c robustCase, r *Result, h halvingCount) {
+	if !c.completes || r.Failure != nil {
+		return
+	}
+	for _, row := range r.History[min(1, len(r.History)):] {
+		if row.Iterations > maxIncrementIterations {
+			t.Errorf("%s: increment %d took %d Newton iterations, aim ≤ %d", c.file, row.Increment, row.Iterations, maxIncrementIterations)
+		}
+	}
+	if h.most > maxCutsInRow {
+		t.Errorf("%s: a step was halved or cut %d times in a row, aim ≤ %d", c.file, h.most, maxCutsInRow)
 	}
 }
 
