@@ -192,14 +192,3 @@ func IsNotConverged(err error) bool {
 	var nc *NotConvergedError
 	return errors.As(err, &nc)
 }
-
-// quiet reports whether no contact point changed status in the last
-// evaluation.
-func (s *Solver) quiet() bool {
-	for _, p := range s.pairs {
-		if len(p.Changes()) > 0 {
-			return false
-		}
-	}
-	return true
-}
