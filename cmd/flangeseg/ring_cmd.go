@@ -109,6 +109,14 @@ func (f ringFlags) check() string {
 		return fmt.Sprintf("--gamma-mf = %s: must lie from 1 to 2 (EN 1993-1-9 Table 3.1 recommends 1.00 to 1.35)", modelfile.FormatNumber(f.fat.GammaMf))
 	case !finite(f.fat.LossLimit) || f.fat.LossLimit <= 0 || f.fat.LossLimit >= 1:
 		return fmt.Sprintf("--loss-limit = %s: must lie between 0 and 1 (a share of the preload)", modelfile.FormatNumber(f.fat.LossLimit))
+	case !finite(f.opt.GapTolerance) || f.opt.GapTolerance <= 0:
+		return fmt.Sprintf("--gap-tolerance = %s mm: must be > 0", modelfile.FormatNumber(f.opt.GapTolerance))
+	case !finite(f.opt.TaperTolerance) || f.opt.TaperTolerance <= 0:
+		return fmt.Sprintf("--taper-tolerance = %s°: must be > 0", modelfile.FormatNumber(f.opt.TaperTolerance))
+	case !finite(f.opt.SpringTolerance) || f.opt.SpringTolerance <= 0:
+		return fmt.Sprintf("--spring-tolerance = %s: must be > 0", modelfile.FormatNumber(f.opt.SpringTolerance))
+	case !finite(f.opt.RingFactor) || f.opt.RingFactor <= 0:
+		return fmt.Sprintf("--ring-factor = %s: must be > 0", modelfile.FormatNumber(f.opt.RingFactor))
 	case f.jobs < 0:
 		return fmt.Sprintf("--jobs = %d: must be ≥ 1 (or 0: the cores)", f.jobs)
 	}
