@@ -32,6 +32,7 @@ func commands() []command {
 		{"hand", "run the hand methods (EN 1993-1-8, Petersen, Seidel, VDI 2230, trilinear) for a model file", runHand},
 		{"fatigue", "bolt fatigue damage under a load spectrum, from the FE or the hand bolt-force function", runFatigue},
 		{"mesh", "mesh a model file and write mesh.vtu with the element quality", runMesh},
+		{"ring", "check every bolt of a ring flange from a flatness survey: imperfection, preload left, bolt-force function and fatigue damage per bolt", runRing},
 		{"run", "run the finite-element analysis of one bolt segment from a model file", runRun},
 		{"sweep", "run a parameter sweep: the cases of a plan file, side by side or as shards of a batch array job", runSweep},
 		{"validate", "check a model file and print it with its defaults and derived quantities", runValidate},

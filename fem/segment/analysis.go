@@ -24,6 +24,7 @@ type segment struct {
 	faces   *contact.Pair // upper flange face on the lower one
 	head    *contact.Pair // head washer on the upper flange
 	nut     *contact.Pair // nut washer on the lower flange
+	spring  *gapSpring    // contact.gap_spring between the flanges, nil without (gapspring.go)
 	zones   []zoneRange   // contact zones of the face (or the whole face)
 	cut     boltCut       // the bolt section at the contact plane
 	under   boltCut       // the bolt section under the head
@@ -152,6 +153,9 @@ func buildSegment(s *modelfile.Spec, d modelfile.Derived) (*segment, error) {
 		return nil, err
 	}
 	if err := g.contacts(); err != nil {
+		return nil, err
+	}
+	if g.spring, err = g.newGapSpring(s.Contact.GapSpring); err != nil {
 		return nil, err
 	}
 	g.cut, err = g.section("bolt_interface", func(z, zc float64) bool { return z > zc })
@@ -365,5 +369,9 @@ func (g *segment) regionHeight(name string) float64 {
 }
 
 func (g *segment) pairs() []fem.ContactPair {
-	return []fem.ContactPair{g.faces, g.head, g.nut}
+	ps := []fem.ContactPair{g.faces, g.head, g.nut}
+	if g.spring != nil {
+		ps = append(ps, g.spring)
+	}
+	return ps
 }

@@ -54,6 +54,7 @@ func inputKeys() map[string]inputKey {
 		"contact.recess_on":           {"", "recessed faces", "", 0},
 		"contact.taper":               {"", "taper of each face", "°", 0},
 		"contact.parallel_gap":        {"", "uniform gap between the faces", mm, 0},
+		"contact.gap_spring":          {"k_g", "ring's resistance to closing the parallel gap (spring between the flanges)", "kN/mm", 1e-3},
 		"preload.force":               {"F_p", "preload force", "kN", 1e-3},
 		"preload.fraction":            {"", "preload as a fraction of F_p,C", one, 0},
 		"preload.nut_turn":            {"", "nut turn", "°", 0},

@@ -23,6 +23,7 @@ const (
 	KindFatigue    = "fatigue"    // a bolt fatigue assessment
 	KindMesh       = "mesh"       // a mesh to look at
 	KindSweep      = "sweep"      // a sweep's cases and tables, resumed in place
+	KindRing       = "ring"       // a ring check: its classes run as a sweep, resumed in place, and the per-bolt tables
 )
 
 // ErrNotResult is wrapped by the error of an output directory that exists

@@ -100,6 +100,7 @@ func KeyDefaults() []KeyDefault {
 		{"contact.recess_on", `"both"`, func(s *Spec) { s.Contact.RecessOn = RecessBoth }},
 		{"contact.taper", "0°", nil},
 		{"contact.parallel_gap", "0 mm", nil},
+		{"contact.gap_spring", "0 N/mm: no spring (the strip alone resists closing a parallel gap)", nil},
 		{"preload.fraction", "1.0 (F_p = F_p,C = 0.7·f_ub·A_s) when none of force, fraction, nut_turn is given", func(s *Spec) {
 			p := &s.Preload
 			if p.Force == nil && p.NutTurn == nil {

@@ -108,6 +108,16 @@ type ContactSpec struct {
 
 	// ParallelGap is a uniform gap between the faces, added to the rest.
 	ParallelGap float64 `toml:"parallel_gap"`
+
+	// GapSpring (N/mm) stands in for the neighbouring segments of the
+	// ring, which a strip lacks: a spring between the two flanges, under
+	// the washers, that resists the flanges' approach from their places
+	// before tightening and pushes them apart by GapSpring times that
+	// approach (never pulls them together), so that the preload spends
+	// the force that closing a parallel gap against the ring's bending
+	// takes. Zero: none. Only with ParallelGap > 0. flangeseg ring sets
+	// it per bolt from the ring's bending over the gap's length.
+	GapSpring float64 `toml:"gap_spring"`
 }
 
 // ZoneSpec is a band of the face that touches, From < To.

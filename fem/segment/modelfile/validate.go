@@ -339,6 +339,10 @@ func (s *Spec) checkContact(c *checker) {
 	c.oneOf("contact.recess_on", ct.RecessOn, RecessBoth, RecessUpper, RecessLower)
 	c.number("contact.taper", ct.Taper, math.Abs(ct.Taper) <= 5, "must lie within ±5° (a taper is a small tilt of the face)")
 	c.nonNegative("contact.parallel_gap", ct.ParallelGap)
+	if c.nonNegative("contact.gap_spring", ct.GapSpring) && ct.GapSpring > 0 && c.usable("contact.parallel_gap") {
+		c.number("contact.gap_spring", ct.GapSpring, ct.ParallelGap > 0,
+			"needs contact.parallel_gap > 0: the spring holds a parallel gap open as the neighbouring segments of the ring do, and without one it has nothing to hold (leave it out, or 0)")
+	}
 	if ct.Zones != nil && len(ct.Zones) == 0 {
 		c.fail("contact.zones", "contact.zones: empty; leave the key out when the whole face touches")
 		return
