@@ -407,15 +407,26 @@ func (l *logStrain) tangent(d *material.Mat4, t material.Vec4, hoop bool) materi
 // rounding for s < 0.2); above it the closed forms lose at most a digit.
 const psiSeries = 0.2
 
+// psiTerms holds the coefficients of the k-th terms of the series of ψ,
+// ψ' and ψ": 1/(2k+1), (k+1)/(2k+3) and (k+2)(k+1)/(2k+5), so that a term
+// costs multiplications, not divisions. Read only.
+var psiTerms = func() (c [40][3]float64) {
+	for k := range c {
+		fk := float64(k)
+		c[k] = [3]float64{1 / (2*fk + 1), (fk + 1) / (2*fk + 3), (fk + 2) * (fk + 1) / (2*fk + 5)}
+	}
+	return c
+}()
+
 // psi returns ψ(s) = atanh(√s)/√s and its first two derivatives, s ∈ [0, 1).
 func psi(s float64) (p, dp, ddp float64) {
 	if s < psiSeries {
 		sk := 1.0
-		for k := 0; k < 40; k++ {
-			fk := float64(k)
-			t := (fk + 2) * (fk + 1) * sk / (2*fk + 5)
-			p += sk / (2*fk + 1)
-			dp += (fk + 1) * sk / (2*fk + 3)
+		for k := range psiTerms {
+			c := &psiTerms[k]
+			t := c[2] * sk
+			p += c[0] * sk
+			dp += c[1] * sk
 			ddp += t
 			// The terms fall as sᵏ; the second derivative's falls last.
 			if t < 1e-17*ddp {
