@@ -145,20 +145,20 @@ func (FiniteStrain) accumulate(c material.Condition, g *PointGeometry, k *pointW
 	if axi {
 		hoop = (1 + h.yy) / g.X
 	}
-	b0, b1, b2, b3 := &k.b[0], &k.b[1], &k.b[2], &k.b[3]
-	for a, n := range g.N {
+	n := len(g.N)
+	fe = fe[:2*n]
+	for a := 0; a < n; a++ {
 		dx, dz := g.DNdx[a], g.DNdz[a]
-		ix, iz := 2*a, 2*a+1
-		b0[ix], b0[iz] = fxx*dx, h.zx*dx
-		b1[ix], b1[iz] = h.xz*dz, fzz*dz
-		b3[ix], b3[iz] = fxx*dz+h.xz*dx, h.zx*dz+fzz*dx
-		fx := s0*b0[ix] + s1*b1[ix] + s3*b3[ix]
+		b := &k.b[a]
+		b.x = [4]float64{fxx * dx, h.xz * dz, 0, fxx*dz + h.xz*dx}
+		b.z = [4]float64{h.zx * dx, fzz * dz, 0, h.zx*dz + fzz*dx}
+		fx := s0*b.x[0] + s1*b.x[1] + s3*b.x[3]
 		if axi {
-			b2[ix], b2[iz] = hoop*n, 0
-			fx += s2 * b2[ix]
+			b.x[2] = hoop * g.N[a]
+			fx += s2 * b.x[2]
 		}
-		fe[ix] += fx
-		fe[iz] += s0*b0[iz] + s1*b1[iz] + s3*b3[iz]
+		fe[2*a] += fx
+		fe[2*a+1] += s0*b.z[0] + s1*b.z[1] + s3*b.z[3]
 	}
 	if ke == nil {
 		return
@@ -169,48 +169,53 @@ func (FiniteStrain) accumulate(c material.Condition, g *PointGeometry, k *pointW
 			dm[i][j] *= w
 		}
 	}
-	nd := 2 * len(g.N)
-	db0, db1, db2, db3 := &k.db[0], &k.db[1], &k.db[2], &k.db[3]
-	for j := 0; j < nd; j++ {
-		x0, x1, x3 := b0[j], b1[j], b3[j]
-		db0[j] = dm[0][0]*x0 + dm[0][1]*x1 + dm[0][3]*x3
-		db1[j] = dm[1][0]*x0 + dm[1][1]*x1 + dm[1][3]*x3
-		db3[j] = dm[3][0]*x0 + dm[3][1]*x1 + dm[3][3]*x3
-		if axi {
-			x2 := b2[j]
-			db0[j] += dm[0][2] * x2
-			db1[j] += dm[1][2] * x2
-			db3[j] += dm[3][2] * x2
-			db2[j] = dm[2][0]*x0 + dm[2][1]*x1 + dm[2][2]*x2 + dm[2][3]*x3
+	for a := 0; a < n; a++ {
+		b, db := &k.b[a], &k.db[a]
+		for col := 0; col < 2; col++ {
+			x, y := &b.x, &db.x
+			if col == 1 {
+				x, y = &b.z, &db.z
+			}
+			y[0] = dm[0][0]*x[0] + dm[0][1]*x[1] + dm[0][3]*x[3]
+			y[1] = dm[1][0]*x[0] + dm[1][1]*x[1] + dm[1][3]*x[3]
+			y[3] = dm[3][0]*x[0] + dm[3][1]*x[1] + dm[3][3]*x[3]
+			if axi {
+				y[0] += dm[0][2] * x[2]
+				y[1] += dm[1][2] * x[2]
+				y[3] += dm[3][2] * x[2]
+				y[2] = dm[2][0]*x[0] + dm[2][1]*x[1] + dm[2][2]*x[2] + dm[2][3]*x[3]
+			}
 		}
 	}
 	hoopGeo := 0.0 // w·S_yy/x², the hoop part of the geometric stiffness
 	if axi {
 		hoopGeo = s2 / (g.X * g.X)
 	}
-	for a := range g.N {
-		ix, iz := 2*a, 2*a+1
-		ax0, ax1, ax2, ax3 := b0[ix], b1[ix], b2[ix], b3[ix]
-		az0, az1, az3 := b0[iz], b1[iz], b3[iz]
+	nd := 2 * n
+	for a := 0; a < n; a++ {
+		ba := &k.b[a]
+		ax0, ax1, ax2, ax3 := ba.x[0], ba.x[1], ba.x[2], ba.x[3]
+		az0, az1, az3 := ba.z[0], ba.z[1], ba.z[3]
 		dxa, dza := g.DNdx[a], g.DNdz[a]
 		gx, gz := s0*dxa+s3*dza, s1*dza+s3*dxa
 		hoopA := hoopGeo * g.N[a]
-		rx, rz := ke[ix*nd:(ix+1)*nd], ke[iz*nd:(iz+1)*nd]
-		for b := a; b < len(g.N); b++ {
-			jx, jz := 2*b, 2*b+1
+		rx, rz := ke[2*a*nd:(2*a+1)*nd], ke[(2*a+1)*nd:(2*a+2)*nd]
+		for b := a; b < n; b++ {
+			db := &k.db[b]
 			geo := gx*g.DNdx[b] + gz*g.DNdz[b]
-			xx := ax0*db0[jx] + ax1*db1[jx] + ax3*db3[jx] + geo
-			xz := ax0*db0[jz] + ax1*db1[jz] + ax3*db3[jz]
+			xx := ax0*db.x[0] + ax1*db.x[1] + ax3*db.x[3] + geo
+			xz := ax0*db.z[0] + ax1*db.z[1] + ax3*db.z[3]
 			if axi {
-				xx += ax2*db2[jx] + hoopA*g.N[b]
-				xz += ax2 * db2[jz]
+				xx += ax2*db.x[2] + hoopA*g.N[b]
+				xz += ax2 * db.z[2]
 			}
-			rx[jx] += xx
-			rx[jz] += xz
+			px, pz := rx[2*b:2*b+2], rz[2*b:2*b+2]
+			px[0] += xx
+			px[1] += xz
 			if b != a { // the zx entry of a diagonal block is in the lower triangle
-				rz[jx] += az0*db0[jx] + az1*db1[jx] + az3*db3[jx]
+				pz[0] += az0*db.x[0] + az1*db.x[1] + az3*db.x[3]
 			}
-			rz[jz] += az0*db0[jz] + az1*db1[jz] + az3*db3[jz] + geo
+			pz[1] += az0*db.z[0] + az1*db.z[1] + az3*db.z[3] + geo
 		}
 	}
 }

@@ -46,10 +46,16 @@ type pointWork struct {
 	valid bool          // h is not inverted
 	log   logStrain     // ½ ln C and its derivatives (FiniteStrain)
 	d     material.Mat4 // the law's tangent
-	// b holds the rows xx, zz, yy, xz of the strain–displacement matrix B
-	// (columns: element dofs), db the rows of w·D·B.
-	b, db [4][maxElementDofs]float64
+	// b holds the columns of the strain–displacement matrix B of each
+	// node, db those of w·D·B: per node, so that the pass over the node
+	// pairs reads one record a node.
+	b  [maxElementNodes]nodeColumns
+	db [maxElementNodes]nodeColumns
 }
+
+// nodeColumns are the two columns of a 4-row matrix (B or w·D·B) that
+// belong to one node: x for u_x, z for u_z, rows xx, zz, yy, xz.
+type nodeColumns struct{ x, z [4]float64 }
 
 // SmallStrain is the geometrically linear formulation ε = B·u.
 type SmallStrain struct{}
@@ -75,13 +81,15 @@ func (SmallStrain) accumulate(c material.Condition, g *PointGeometry, k *pointWo
 	w := g.Weight
 	axi := c == material.Axisymmetric
 	s0, s1, s2, s3 := w*stress[0], w*stress[1], w*stress[2], w*stress[3]
-	hoop := &k.b[2] // N/x at the x dofs (axisymmetry)
-	for a, n := range g.N {
+	n := len(g.N)
+	fe = fe[:2*n]
+	for a := 0; a < n; a++ {
 		dx, dz := g.DNdx[a], g.DNdz[a]
 		fx := s0*dx + s3*dz
 		if axi {
-			hoop[2*a] = n / g.X
-			fx += s2 * hoop[2*a]
+			r := g.N[a] / g.X
+			k.b[a].x[2] = r
+			fx += s2 * r
 		}
 		fe[2*a] += fx
 		fe[2*a+1] += s1*dz + s3*dx
@@ -96,40 +104,41 @@ func (SmallStrain) accumulate(c material.Condition, g *PointGeometry, k *pointWo
 		}
 	}
 	// w·D·B, rows xx, zz, xz (and yy in axisymmetry).
-	db0, db1, db2, db3 := &k.db[0], &k.db[1], &k.db[2], &k.db[3]
-	for a := range g.N {
+	for a := 0; a < n; a++ {
 		dx, dz := g.DNdx[a], g.DNdz[a]
-		ix, iz := 2*a, 2*a+1
-		db0[ix], db0[iz] = wd[0][0]*dx+wd[0][3]*dz, wd[0][1]*dz+wd[0][3]*dx
-		db1[ix], db1[iz] = wd[1][0]*dx+wd[1][3]*dz, wd[1][1]*dz+wd[1][3]*dx
-		db3[ix], db3[iz] = wd[3][0]*dx+wd[3][3]*dz, wd[3][1]*dz+wd[3][3]*dx
+		db := &k.db[a]
+		db.x[0], db.z[0] = wd[0][0]*dx+wd[0][3]*dz, wd[0][1]*dz+wd[0][3]*dx
+		db.x[1], db.z[1] = wd[1][0]*dx+wd[1][3]*dz, wd[1][1]*dz+wd[1][3]*dx
+		db.x[3], db.z[3] = wd[3][0]*dx+wd[3][3]*dz, wd[3][1]*dz+wd[3][3]*dx
 		if axi {
-			r := hoop[ix]
-			db0[ix] += wd[0][2] * r
-			db1[ix] += wd[1][2] * r
-			db3[ix] += wd[3][2] * r
-			db2[ix] = wd[2][0]*dx + wd[2][3]*dz + wd[2][2]*r
-			db2[iz] = wd[2][1]*dz + wd[2][3]*dx
+			r := k.b[a].x[2]
+			db.x[0] += wd[0][2] * r
+			db.x[1] += wd[1][2] * r
+			db.x[3] += wd[3][2] * r
+			db.x[2] = wd[2][0]*dx + wd[2][3]*dz + wd[2][2]*r
+			db.z[2] = wd[2][1]*dz + wd[2][3]*dx
 		}
 	}
-	nd := 2 * len(g.N)
-	for a := range g.N {
+	nd := 2 * n
+	for a := 0; a < n; a++ {
 		dxa, dza := g.DNdx[a], g.DNdz[a]
+		ra := k.b[a].x[2]
 		rx, rz := ke[2*a*nd:(2*a+1)*nd], ke[(2*a+1)*nd:(2*a+2)*nd]
-		for b := a; b < len(g.N); b++ {
-			jx, jz := 2*b, 2*b+1
-			xx := dxa*db0[jx] + dza*db3[jx]
-			xz := dxa*db0[jz] + dza*db3[jz]
+		for b := a; b < n; b++ {
+			db := &k.db[b]
+			xx := dxa*db.x[0] + dza*db.x[3]
+			xz := dxa*db.z[0] + dza*db.z[3]
 			if axi {
-				xx += hoop[2*a] * db2[jx]
-				xz += hoop[2*a] * db2[jz]
+				xx += ra * db.x[2]
+				xz += ra * db.z[2]
 			}
-			rx[jx] += xx
-			rx[jz] += xz
+			px, pz := rx[2*b:2*b+2], rz[2*b:2*b+2]
+			px[0] += xx
+			px[1] += xz
 			if b != a { // the zx entry of a diagonal block is in the lower triangle
-				rz[jx] += dza*db1[jx] + dxa*db3[jx]
+				pz[0] += dza*db.x[1] + dxa*db.x[3]
 			}
-			rz[jz] += dza*db1[jz] + dxa*db3[jz]
+			pz[1] += dza*db.z[1] + dxa*db.z[3]
 		}
 	}
 }
