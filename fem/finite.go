@@ -486,7 +486,7 @@ func (s *Solution) CauchyPoints() ([][]PointResult, error) {
 			ue[2*a], ue[2*a+1] = s.U[2*n], s.U[2*n+1]
 		}
 		for ip, p := range m.rule {
-			g, err := m.pointGeometry(e, p, sc)
+			g, err := m.geometryAt(e, ip, p, sc)
 			if err != nil {
 				return nil, err
 			}
