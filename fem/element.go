@@ -15,6 +15,7 @@ type scratch struct {
 	ke                       [maxElementDofs * maxElementDofs]float64
 	geo                      PointGeometry
 	jac                      [4]float64 // J11, J12, J21, J22 of the last point
+	point                    pointWork
 }
 
 func newScratch() *scratch { return &scratch{} }
@@ -132,7 +133,9 @@ func (e *PointError) Unwrap() error { return e.Err }
 
 // elementResponse computes the internal force fe and, if ke != nil, the
 // tangent of element e at element displacements ue. If pts is not nil it
-// receives one PointResult per integration point.
+// receives one PointResult per integration point. It allocates nothing:
+// its working memory is s, the calling worker's. The points add to the
+// upper triangle of ke, mirrored once at the end.
 func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, s *scratch) error {
 	for i := range fe {
 		fe[i] = 0
@@ -152,23 +155,30 @@ func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, 
 		if err != nil {
 			return err
 		}
-		strain := m.kin.Strain(m.opt.Condition, g, ue)
+		strain := m.kin.strain(m.opt.Condition, g, ue, &s.point)
 		elastic := strain
 		for c := range elastic {
 			elastic[c] -= eigen[c]
 		}
 		committed, trial := m.history.point(e, ip)
-		stress, d, err := law.Respond(m.opt.Condition, elastic, committed, trial)
+		// The tangent lives in s: a local passed to the interface method
+		// by address would be allocated at every point.
+		d := &s.point.d
+		var stress material.Vec4
+		stress, *d, err = law.Respond(m.opt.Condition, elastic, committed, trial)
 		if err != nil {
 			return &PointError{Element: e, Point: ip, Err: err}
 		}
-		m.kin.Accumulate(m.opt.Condition, g, ue, stress, &d, fe, ke)
+		m.kin.accumulate(m.opt.Condition, g, &s.point, stress, d, fe, ke)
 		if spring != [2]float64{} {
 			addFoundation(g, spring, ue, fe, ke)
 		}
 		if pts != nil {
 			pts[ip] = PointResult{X: g.X, Z: g.Z, Strain: strain, Stress: stress, History: trial}
 		}
+	}
+	if ke != nil {
+		mirrorUpper(ke, len(ue))
 	}
 	return nil
 }
@@ -257,7 +267,7 @@ func (m *Model) addEdgeLoads(f []float64) error {
 // addFoundation adds an elastic foundation of stiffness k = (kx, kz) per
 // unit volume (MPa/mm) at one point: f_a = k·N_a·u, the ring-spring
 // stand-in for hoop stiffness (x), or a weak support of a body that is
-// held by contact alone.
+// held by contact alone. The stiffness goes to the upper triangle of ke.
 func addFoundation(g *PointGeometry, k [2]float64, ue, fe, ke []float64) {
 	var u [2]float64
 	for a, n := range g.N {
@@ -265,17 +275,20 @@ func addFoundation(g *PointGeometry, k [2]float64, ue, fe, ke []float64) {
 		u[1] += n * ue[2*a+1]
 	}
 	nd := len(ue)
-	for a, na := range g.N {
-		for d := 0; d < 2; d++ {
-			if k[d] == 0 {
-				continue
-			}
-			fe[2*a+d] += g.Weight * k[d] * na * u[d]
+	for d := 0; d < 2; d++ {
+		if k[d] == 0 {
+			continue
+		}
+		wk := g.Weight * k[d]
+		for a, na := range g.N {
+			fe[2*a+d] += wk * na * u[d]
 			if ke == nil {
 				continue
 			}
-			for b, nb := range g.N {
-				ke[(2*a+d)*nd+2*b+d] += g.Weight * k[d] * na * nb
+			row := ke[(2*a+d)*nd : (2*a+d+1)*nd]
+			wkn := wk * na
+			for b := a; b < len(g.N); b++ {
+				row[2*b+d] += wkn * g.N[b]
 			}
 		}
 	}

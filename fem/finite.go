@@ -111,120 +111,111 @@ func invalidStrain() material.Vec4 {
 	return material.Vec4{n, n, n, n}
 }
 
-// Strain implements Kinematics: the logarithmic strain ½ ln C.
-func (FiniteStrain) Strain(c material.Condition, g *PointGeometry, u []float64) material.Vec4 {
-	h := deformationAt(c, g, u)
-	if !h.valid() {
+func (FiniteStrain) strain(c material.Condition, g *PointGeometry, u []float64, k *pointWork) material.Vec4 {
+	k.h = deformationAt(c, g, u)
+	k.valid = k.h.valid()
+	if !k.valid {
 		return invalidStrain()
 	}
-	return henckyValue(h.greenLagrange())
+	k.log.evaluate(k.h.greenLagrange())
+	return k.log.e
 }
 
-// Accumulate implements Kinematics. stress is the law's stress T and d its
-// tangent dT/dE, both in logarithmic strain space.
-func (FiniteStrain) Accumulate(c material.Condition, g *PointGeometry, u []float64, stress material.Vec4, d *material.Mat4, fe, ke []float64) {
-	nd := len(u)
-	h := deformationAt(c, g, u)
-	if !h.valid() {
+// accumulate of the total-Lagrangian B at the deformation strain found
+// (δE_GL = B·δu), with the law's stress T pulled back to the second
+// Piola–Kirchhoff stress S and its tangent to dS/dE_GL through the
+// derivatives of the logarithm that strain kept. The geometric stiffness
+// w·Σ_k S_k ∂²E_GL,k/∂u∂u, the same scalar in the x and the z block of a
+// node pair (and a hoop term in the x block), is added in the same pass
+// over the node pairs as w·BᵀDB.
+func (FiniteStrain) accumulate(c material.Condition, g *PointGeometry, k *pointWork, stress material.Vec4, d *material.Mat4, fe, ke []float64) {
+	if !k.valid {
 		for j := range fe {
 			fe[j] = math.NaN()
 		}
 		return
 	}
-	var curvature *material.Vec4
-	if ke != nil {
-		curvature = &stress
-	}
-	_, jac, curv := henckyStrain(h.greenLagrange(), curvature)
-	s := pullBack(&jac, stress)
-	var bb [4][maxElementDofs]float64
-	b := [][]float64{bb[0][:nd], bb[1][:nd], bb[2][:nd], bb[3][:nd]}
-	fillNonlinearB(c, g, h, b)
+	h := &k.h
 	w := g.Weight
-	for j := 0; j < nd; j++ {
-		fe[j] += w * (b[0][j]*s[0] + b[1][j]*s[1] + b[2][j]*s[2] + b[3][j]*s[3])
+	axi := c == material.Axisymmetric
+	s := k.log.pullBack(stress)
+	s0, s1, s2, s3 := w*s[0], w*s[1], w*s[2], w*s[3]
+	fxx, fzz := 1+h.xx, 1+h.zz
+	hoop := 0.0 // F_yy/x: the yy row of B is hoop·N at the x dofs
+	if axi {
+		hoop = (1 + h.yy) / g.X
+	}
+	n := len(g.N)
+	fe = fe[:2*n]
+	for a := 0; a < n; a++ {
+		dx, dz := g.DNdx[a], g.DNdz[a]
+		b := &k.b[a]
+		b.x = [4]float64{fxx * dx, h.xz * dz, 0, fxx*dz + h.xz*dx}
+		b.z = [4]float64{h.zx * dx, fzz * dz, 0, h.zx*dz + fzz*dx}
+		fx := s0*b.x[0] + s1*b.x[1] + s3*b.x[3]
+		if axi {
+			b.x[2] = hoop * g.N[a]
+			fx += s2 * b.x[2]
+		}
+		fe[2*a] += fx
+		fe[2*a+1] += s0*b.z[0] + s1*b.z[1] + s3*b.z[3]
 	}
 	if ke == nil {
 		return
 	}
-	dm := materialTangent(&jac, d, &curv)
-	var scratch [4 * maxElementDofs]float64
-	addBtDB(b, &dm, w, ke, scratch[:])
-	addInitialStress(c, g, s, w, ke)
-}
-
-// pullBack is S_j = Σ_k T_k ∂E_k/∂E_GL,j: the second Piola–Kirchhoff
-// stress of the law's stress T.
-func pullBack(jac *material.Mat4, t material.Vec4) material.Vec4 {
-	var s material.Vec4
-	for j := range s {
-		for k := range t {
-			s[j] += t[k] * jac[k][j]
+	dm := k.log.tangent(d, stress, axi)
+	for i := range dm {
+		for j := range dm[i] {
+			dm[i][j] *= w
 		}
 	}
-	return s
-}
-
-// materialTangent is dS/dE_GL = Jᵀ·D·J + Σ_k T_k ∂²E_k/∂E_GL², J = ∂E/∂E_GL.
-func materialTangent(jac, d, curv *material.Mat4) material.Mat4 {
-	var dj, out material.Mat4
-	for i := 0; i < 4; i++ {
-		for j := 0; j < 4; j++ {
-			for k := 0; k < 4; k++ {
-				dj[i][j] += d[i][k] * jac[k][j]
+	for a := 0; a < n; a++ {
+		b, db := &k.b[a], &k.db[a]
+		for col := 0; col < 2; col++ {
+			x, y := &b.x, &db.x
+			if col == 1 {
+				x, y = &b.z, &db.z
 			}
-		}
-	}
-	for i := 0; i < 4; i++ {
-		for j := 0; j < 4; j++ {
-			v := curv[i][j]
-			for k := 0; k < 4; k++ {
-				v += jac[k][i] * dj[k][j]
-			}
-			out[i][j] = v
-		}
-	}
-	return out
-}
-
-// fillNonlinearB writes δE_GL = B·δu, 4 rows × 2n columns, at the current
-// deformation: the rows of sym(Fᵀ∇δu) and, in axisymmetry, F_yy·δu_x/x.
-func fillNonlinearB(c material.Condition, g *PointGeometry, h deformation, b [][]float64) {
-	fxx, fzz, fyy := 1+h.xx, 1+h.zz, 1+h.yy
-	for a := range g.N {
-		ix, iz := 2*a, 2*a+1
-		dx, dz := g.DNdx[a], g.DNdz[a]
-		b[0][ix], b[0][iz] = fxx*dx, h.zx*dx
-		b[1][ix], b[1][iz] = h.xz*dz, fzz*dz
-		b[2][ix], b[2][iz] = 0, 0
-		if c == material.Axisymmetric {
-			b[2][ix] = fyy * g.N[a] / g.X
-		}
-		b[3][ix], b[3][iz] = fxx*dz+h.xz*dx, h.zx*dz+fzz*dx
-	}
-}
-
-// addInitialStress adds w·Σ_k S_k ∂²E_GL,k/∂u∂u, the geometric stiffness:
-// the same scalar in the x and the z block of every node pair, and the hoop
-// term in the x block alone.
-func addInitialStress(c material.Condition, g *PointGeometry, s material.Vec4, w float64, ke []float64) {
-	nd := 2 * len(g.N)
-	axi := c == material.Axisymmetric
-	for a := range g.N {
-		dxa, dza := g.DNdx[a], g.DNdz[a]
-		sx, sz := w*(s[0]*dxa+s[3]*dza), w*(s[1]*dza+s[3]*dxa)
-		for b := a; b < len(g.N); b++ {
-			v := sx*g.DNdx[b] + sz*g.DNdz[b]
-			hoop := 0.0
+			y[0] = dm[0][0]*x[0] + dm[0][1]*x[1] + dm[0][3]*x[3]
+			y[1] = dm[1][0]*x[0] + dm[1][1]*x[1] + dm[1][3]*x[3]
+			y[3] = dm[3][0]*x[0] + dm[3][1]*x[1] + dm[3][3]*x[3]
 			if axi {
-				hoop = w * s[2] * g.N[a] * g.N[b] / (g.X * g.X)
+				y[0] += dm[0][2] * x[2]
+				y[1] += dm[1][2] * x[2]
+				y[3] += dm[3][2] * x[2]
+				y[2] = dm[2][0]*x[0] + dm[2][1]*x[1] + dm[2][2]*x[2] + dm[2][3]*x[3]
 			}
-			ke[(2*a)*nd+2*b] += v + hoop
-			ke[(2*a+1)*nd+2*b+1] += v
-			if b != a {
-				ke[(2*b)*nd+2*a] += v + hoop
-				ke[(2*b+1)*nd+2*a+1] += v
+		}
+	}
+	hoopGeo := 0.0 // w·S_yy/x², the hoop part of the geometric stiffness
+	if axi {
+		hoopGeo = s2 / (g.X * g.X)
+	}
+	nd := 2 * n
+	for a := 0; a < n; a++ {
+		ba := &k.b[a]
+		ax0, ax1, ax2, ax3 := ba.x[0], ba.x[1], ba.x[2], ba.x[3]
+		az0, az1, az3 := ba.z[0], ba.z[1], ba.z[3]
+		dxa, dza := g.DNdx[a], g.DNdz[a]
+		gx, gz := s0*dxa+s3*dza, s1*dza+s3*dxa
+		hoopA := hoopGeo * g.N[a]
+		rx, rz := ke[2*a*nd:(2*a+1)*nd], ke[(2*a+1)*nd:(2*a+2)*nd]
+		for b := a; b < n; b++ {
+			db := &k.db[b]
+			geo := gx*g.DNdx[b] + gz*g.DNdz[b]
+			xx := ax0*db.x[0] + ax1*db.x[1] + ax3*db.x[3] + geo
+			xz := ax0*db.z[0] + ax1*db.z[1] + ax3*db.z[3]
+			if axi {
+				xx += ax2*db.x[2] + hoopA*g.N[b]
+				xz += ax2 * db.z[2]
 			}
+			px, pz := rx[2*b:2*b+2], rz[2*b:2*b+2]
+			px[0] += xx
+			px[1] += xz
+			if b != a { // the zx entry of a diagonal block is in the lower triangle
+				pz[0] += az0*db.x[0] + az1*db.x[1] + az3*db.x[3]
+			}
+			pz[1] += az0*db.z[0] + az1*db.z[1] + az3*db.z[3] + geo
 		}
 	}
 }
@@ -240,8 +231,9 @@ func (FiniteStrain) Cauchy(c material.Condition, g *PointGeometry, u []float64, 
 	if !h.valid() {
 		return invalidStrain()
 	}
-	_, jac, _ := henckyStrain(h.greenLagrange(), nil)
-	s := pullBack(&jac, stress)
+	var l logStrain
+	l.evaluate(h.greenLagrange())
+	s := l.pullBack(stress)
 	fxx, fzz, fyy := 1+h.xx, 1+h.zz, 1+h.yy
 	if c == material.PlaneStress {
 		fyy = math.Exp(thicknessStrain)
@@ -258,172 +250,188 @@ func (FiniteStrain) Cauchy(c material.Condition, g *PointGeometry, u []float64, 
 	}
 }
 
-// henckyStrain returns the logarithmic strain E = ½ ln C as a function of
-// the Green–Lagrange strain gl (both in Vec4 order with engineering shear),
-// its Jacobian ∂E/∂gl and, if t is not nil, the curvature
-// Σ_k t_k ∂²E_k/∂gl².
+// logStrain is the logarithmic strain E = ½ ln C at a point, as a function
+// of the Green–Lagrange strain gl (both in Vec4 order with engineering
+// shear), with what its first and second derivatives need: evaluate finds
+// E and the Jacobian ∂E/∂gl once per point; pullBack and tangent use them
+// with the law's stress.
 //
 // In the plane the closed form follows from Cayley–Hamilton for a 2×2
 // tensor: with m = ½ tr C, the deviator D = C − m·I and r = |D| (so the
 // eigenvalues are m ± r),
 //
-//	½ ln C = ¼ ln(det C)·I + φ·D,  φ = atanh(r/m)/(2r) = ψ(r²/m²)/(2m),
+//	½ ln C = ℓ·I + φ·D,  ℓ = ¼ ln(det C),  φ = atanh(r/m)/(2r) = ψ(r²/m²)/(2m),
 //
 // where ψ(s) = atanh(√s)/√s = Σ sᵏ/(2k+1) is smooth in s = r²/m² ∈ [0, 1).
 // Unlike the spectral form it has no special case for equal eigenvalues.
-// Out of plane E_yy = ½ ln(1 + 2 gl_yy).
-func henckyStrain(gl [4]float64, t *material.Vec4) (e material.Vec4, jac, curv material.Mat4) {
-	// Coordinates (m, a, b) of the in-plane C: m = ½(C_xx + C_zz),
-	// a = ½(C_xx − C_zz), b = C_xz; q = a² + b² = r².
-	dm := gl[0] + gl[1]
-	m, a, b := 1+dm, gl[0]-gl[1], gl[3]
-	q := a*a + b*b
-	det := m*m - q // det of the in-plane C
-	var ell, phi scalar
-	ell.v = math.Log1p(dm*(2+dm)-q) / 4
-	ell.m, ell.q = m/(2*det), -1/(4*det)
-	ell.mm, ell.mq, ell.qq = 1/(2*det)-m*m/(det*det), m/(2*det*det), -1/(4*det*det)
-
-	p, dp, ddp := psi(q / (m * m))
-	sm, sq := -2*q/(m*m*m), 1/(m*m) // ds/dm, ds/dq
-	smm, smq := 6*q/(m*m*m*m), -2/(m*m*m)
-	phi.v = p / (2 * m)
-	phi.m = -p/(2*m*m) + dp*sm/(2*m)
-	phi.q = dp * sq / (2 * m)
-	phi.mm = p/(m*m*m) - dp*sm/(m*m) + (ddp*sm*sm+dp*smm)/(2*m)
-	phi.mq = -dp*sq/(2*m*m) + (ddp*sq*sm+dp*smq)/(2*m)
-	phi.qq = ddp * sq * sq / (2 * m)
-
-	gEll, hEll := ell.derivatives(a, b)
-	gPhi, hPhi := phi.derivatives(a, b)
-	// φ·a and φ·b: product rule with the unit vectors of a and b.
-	gPa, hPa := timesCoordinate(phi.v, a, 1, gPhi, hPhi)
-	gPb, hPb := timesCoordinate(phi.v, b, 2, gPhi, hPhi)
-
-	e[0] = ell.v + phi.v*a
-	e[1] = ell.v - phi.v*a
-	e[2] = math.Log1p(2*gl[2]) / 2
-	e[3] = 2 * phi.v * b
-	var grads [4][3]float64 // ∂E_k/∂(m, a, b), in-plane components
-	for i := 0; i < 3; i++ {
-		grads[0][i] = gEll[i] + gPa[i]
-		grads[1][i] = gEll[i] - gPa[i]
-		grads[3][i] = 2 * gPb[i]
-	}
-	// ∂(m, a, b)/∂gl: m = 1 + gl_xx + gl_zz, a = gl_xx − gl_zz, b = gl_xz.
-	coord := [3][4]float64{{1, 1, 0, 0}, {1, -1, 0, 0}, {0, 0, 0, 1}}
-	for _, k := range [3]int{0, 1, 3} {
-		for j := 0; j < 4; j++ {
-			for i := 0; i < 3; i++ {
-				jac[k][j] += grads[k][i] * coord[i][j]
-			}
-		}
-	}
-	cyy := 1 + 2*gl[2]
-	jac[2][2] = 1 / cyy
-	if t == nil {
-		return e, jac, curv
-	}
-	var hs [3][3]float64 // Σ_k t_k ∂²E_k/∂(m, a, b)²
-	for i := 0; i < 3; i++ {
-		for j := 0; j < 3; j++ {
-			hs[i][j] = t[0]*(hEll[i][j]+hPa[i][j]) + t[1]*(hEll[i][j]-hPa[i][j]) + 2*t[3]*hPb[i][j]
-		}
-	}
-	for r := 0; r < 4; r++ {
-		for c := 0; c < 4; c++ {
-			v := 0.0
-			for i := 0; i < 3; i++ {
-				for j := 0; j < 3; j++ {
-					v += coord[i][r] * hs[i][j] * coord[j][c]
-				}
-			}
-			curv[r][c] = v
-		}
-	}
-	curv[2][2] = -2 * t[2] / (cyy * cyy)
-	return e, jac, curv
-}
-
-// henckyValue is the E of henckyStrain without its derivatives: the
-// strain alone is asked for once per point and iteration, before the
-// stress is known.
-func henckyValue(gl [4]float64) material.Vec4 {
-	dm := gl[0] + gl[1]
-	m, a, b := 1+dm, gl[0]-gl[1], gl[3]
-	q := a*a + b*b
-	ell := math.Log1p(dm*(2+dm)-q) / 4
-	phi := psiValue(q/(m*m)) / (2 * m)
-	return material.Vec4{ell + phi*a, ell - phi*a, math.Log1p(2*gl[2]) / 2, 2 * phi * b}
-}
-
-// psiValue is ψ(s) of psi alone.
-func psiValue(s float64) float64 {
-	if s < psiSeries {
-		p, sk := 0.0, 1.0
-		for k := 0; k < 40; k++ {
-			t := sk / float64(2*k+1)
-			p += t
-			if t < 1e-17*p {
-				break
-			}
-			sk *= s
-		}
-		return p
-	}
-	x := math.Sqrt(s)
-	return math.Atanh(x) / x
+// Out of plane E_yy = ½ ln(1 + 2 gl_yy). In the coordinates (m, a, b) of
+// the in-plane C, m = ½(C_xx + C_zz), a = ½(C_xx − C_zz), b = C_xz, the
+// strain is E_xx = ℓ + φa, E_zz = ℓ − φa, E_xz = 2φb (engineering), with ℓ
+// and φ functions of m and q = a² + b² = r²; and m = 1 + gl_xx + gl_zz,
+// a = gl_xx − gl_zz, b = gl_xz, so ∂/∂gl_xx = ∂_m + ∂_a, ∂/∂gl_zz =
+// ∂_m − ∂_a, ∂/∂gl_xz = ∂_b.
+type logStrain struct {
+	e   material.Vec4
+	jac [3][3]float64 // ∂(E_xx, E_zz, E_xz)/∂(gl_xx, gl_zz, gl_xz)
+	jyy float64       // ∂E_yy/∂gl_yy = 1/C_yy
+	// For the curvature: the coordinates a and b, ℓ and φ with their
+	// derivatives in (m, q).
+	a, b     float64
+	ell, phi scalar
 }
 
 // scalar is a function of (m, q) with its first and second derivatives.
 type scalar struct{ v, m, q, mm, mq, qq float64 }
 
-// derivatives returns the gradient and Hessian of f(m, q = a² + b²) in
-// the coordinates (m, a, b).
-func (f scalar) derivatives(a, b float64) (g [3]float64, h [3][3]float64) {
-	g = [3]float64{f.m, 2 * a * f.q, 2 * b * f.q}
-	h[0][0] = f.mm
-	h[0][1], h[0][2] = 2*a*f.mq, 2*b*f.mq
-	h[1][1] = 2*f.q + 4*a*a*f.qq
-	h[2][2] = 2*f.q + 4*b*b*f.qq
-	h[1][2] = 4 * a * b * f.qq
-	h[1][0], h[2][0], h[2][1] = h[0][1], h[0][2], h[1][2]
-	return g, h
+// evaluate sets E and its Jacobian at gl.
+func (l *logStrain) evaluate(gl [4]float64) {
+	dm := gl[0] + gl[1]
+	m, a, b := 1+dm, gl[0]-gl[1], gl[3]
+	q := a*a + b*b
+	id := 1 / (m*m - q) // 1/det of the in-plane C
+	l.ell = scalar{
+		v: math.Log1p(dm*(2+dm)-q) / 4,
+		m: m * id / 2, q: -id / 4,
+		mm: id/2 - m*m*id*id, mq: m * id * id / 2, qq: -id * id / 4,
+	}
+	im := 1 / m
+	s := q * im * im
+	p, dp, ddp := psi(s)
+	sm, sq := -2*s*im, im*im // ∂s/∂m, ∂s/∂q
+	smm, smq := 6*s*im*im, -2*im*im*im
+	hm := im / 2
+	l.phi = scalar{
+		v: p * hm,
+		m: (dp*sm - p*im) * hm, q: dp * sq * hm,
+		mm: p*im*im*im - dp*sm*im*im + (ddp*sm*sm+dp*smm)*hm,
+		mq: -dp*sq*im*hm + (ddp*sq*sm+dp*smq)*hm,
+		qq: ddp * sq * sq * hm,
+	}
+	l.a, l.b = a, b
+	ell, phi := &l.ell, &l.phi
+	l.e = material.Vec4{ell.v + phi.v*a, ell.v - phi.v*a, math.Log1p(2*gl[2]) / 2, 2 * phi.v * b}
+	// Gradients in (m, a, b): ∇ℓ + a∇φ + φ·e_a, ∇ℓ − a∇φ − φ·e_a and
+	// 2b∇φ + 2φ·e_b, with ∇f = (f_m, 2a·f_q, 2b·f_q).
+	lm, la, lb := ell.m, 2*a*ell.q, 2*b*ell.q
+	pm, pa, pb := phi.m, 2*a*phi.q, 2*b*phi.q
+	grads := [3][3]float64{
+		{lm + a*pm, la + a*pa + phi.v, lb + a*pb},
+		{lm - a*pm, la - a*pa - phi.v, lb - a*pb},
+		{2 * b * pm, 2 * b * pa, 2*b*pb + 2*phi.v},
+	}
+	for k, gr := range grads {
+		l.jac[k] = [3]float64{gr[0] + gr[1], gr[0] - gr[1], gr[2]}
+	}
+	l.jyy = 1 / (1 + 2*gl[2])
 }
 
-// timesCoordinate returns the gradient and Hessian of f·x, where x is
-// coordinate i of (m, a, b) with value x and f has value v, gradient g and
-// Hessian h.
-func timesCoordinate(v, x float64, i int, g [3]float64, h [3][3]float64) ([3]float64, [3][3]float64) {
-	var gx [3]float64
-	var hx [3][3]float64
-	for r := 0; r < 3; r++ {
-		gx[r] = x * g[r]
+// pullBack is S_j = Σ_k T_k ∂E_k/∂E_GL,j: the second Piola–Kirchhoff
+// stress of the law's stress T.
+func (l *logStrain) pullBack(t material.Vec4) material.Vec4 {
+	j := &l.jac
+	return material.Vec4{
+		t[0]*j[0][0] + t[1]*j[1][0] + t[3]*j[2][0],
+		t[0]*j[0][1] + t[1]*j[1][1] + t[3]*j[2][1],
+		t[2] * l.jyy,
+		t[0]*j[0][2] + t[1]*j[1][2] + t[3]*j[2][2],
+	}
+}
+
+// curvature is Σ_k t_k ∂²E_k/∂gl² on the in-plane components (xx, zz, xz)
+// as the six entries of the upper triangle, c00, c01, c03, c11, c13, c33,
+// and on yy, c22. With ts = t_xx + t_zz, td = t_xx − t_zz, tb = 2·t_xz the
+// sum is ts·H(ℓ) + td·H(φa) + tb·H(φb) in (m, a, b), where H(φa) =
+// a·H(φ) + e_a∇φᵀ + ∇φe_aᵀ (likewise b), so the Hessians of ℓ and φ enter
+// as the one function f = ts·ℓ + (td·a + tb·b)·φ.
+func (l *logStrain) curvature(t material.Vec4) (c00, c01, c03, c11, c13, c33, c22 float64) {
+	a, b, ell, phi := l.a, l.b, &l.ell, &l.phi
+	ts, td, tb := t[0]+t[1], t[0]-t[1], 2*t[3]
+	cp := td*a + tb*b
+	fq, fmm, fmq, fqq := ts*ell.q+cp*phi.q, ts*ell.mm+cp*phi.mm, ts*ell.mq+cp*phi.mq, ts*ell.qq+cp*phi.qq
+	// Hessian in (m, a, b).
+	hmm := fmm
+	hma := 2*a*fmq + td*phi.m
+	hmb := 2*b*fmq + tb*phi.m
+	haa := 2*fq + 4*a*a*fqq + 4*a*td*phi.q
+	hab := 4*a*b*fqq + 2*(b*td+a*tb)*phi.q
+	hbb := 2*fq + 4*b*b*fqq + 4*b*tb*phi.q
+	c00 = hmm + 2*hma + haa
+	c01 = hmm - haa
+	c03 = hmb + hab
+	c11 = hmm - 2*hma + haa
+	c13 = hmb - hab
+	c33 = hbb
+	c22 = -2 * t[2] * l.jyy * l.jyy
+	return
+}
+
+// tangent is dS/dE_GL = Jᵀ·D·J + Σ_k T_k ∂²E_k/∂E_GL², J = ∂E/∂E_GL, for a
+// symmetric D (every law's in package material is). The yy row and column
+// are left zero unless hoop is set: outside axisymmetry the yy row of B is
+// zero, so they are never used.
+func (l *logStrain) tangent(d *material.Mat4, t material.Vec4, hoop bool) material.Mat4 {
+	j := &l.jac
+	in := [3]int{0, 1, 3} // the in-plane components in Vec4 order
+	var dj [4][3]float64  // D·J on the in-plane columns
+	for r := 0; r < 4; r++ {
+		if r == 2 && !hoop {
+			continue
+		}
 		for c := 0; c < 3; c++ {
-			hx[r][c] = x * h[r][c]
+			dj[r][c] = d[r][0]*j[0][c] + d[r][1]*j[1][c] + d[r][3]*j[2][c]
 		}
 	}
+	var out material.Mat4
 	for r := 0; r < 3; r++ {
-		hx[r][i] += g[r]
-		hx[i][r] += g[r]
+		for c := r; c < 3; c++ {
+			v := j[0][r]*dj[0][c] + j[1][r]*dj[1][c] + j[2][r]*dj[3][c]
+			out[in[r]][in[c]], out[in[c]][in[r]] = v, v
+		}
 	}
-	gx[i] += v
-	return gx, hx
+	c00, c01, c03, c11, c13, c33, c22 := l.curvature(t)
+	out[0][0] += c00
+	out[1][1] += c11
+	out[3][3] += c33
+	out[0][1] += c01
+	out[1][0] = out[0][1]
+	out[0][3] += c03
+	out[3][0] = out[0][3]
+	out[1][3] += c13
+	out[3][1] = out[1][3]
+	if hoop {
+		for c := 0; c < 3; c++ {
+			v := l.jyy * dj[2][c]
+			out[2][in[c]], out[in[c]][2] = v, v
+		}
+		out[2][2] = l.jyy*d[2][2]*l.jyy + c22
+	}
+	return out
 }
 
 // psiSeries: below this s the series of ψ is summed (40 terms reach
 // rounding for s < 0.2); above it the closed forms lose at most a digit.
 const psiSeries = 0.2
 
+// psiTerms holds the coefficients of the k-th terms of the series of ψ,
+// ψ' and ψ": 1/(2k+1), (k+1)/(2k+3) and (k+2)(k+1)/(2k+5), so that a term
+// costs multiplications, not divisions. Read only.
+var psiTerms = func() (c [40][3]float64) {
+	for k := range c {
+		fk := float64(k)
+		c[k] = [3]float64{1 / (2*fk + 1), (fk + 1) / (2*fk + 3), (fk + 2) * (fk + 1) / (2*fk + 5)}
+	}
+	return c
+}()
+
 // psi returns ψ(s) = atanh(√s)/√s and its first two derivatives, s ∈ [0, 1).
 func psi(s float64) (p, dp, ddp float64) {
 	if s < psiSeries {
 		sk := 1.0
-		for k := 0; k < 40; k++ {
-			fk := float64(k)
-			t := (fk + 2) * (fk + 1) * sk / (2*fk + 5)
-			p += sk / (2*fk + 1)
-			dp += (fk + 1) * sk / (2*fk + 3)
+		for k := range psiTerms {
+			c := &psiTerms[k]
+			t := c[2] * sk
+			p += c[0] * sk
+			dp += c[1] * sk
 			ddp += t
 			// The terms fall as sᵏ; the second derivative's falls last.
 			if t < 1e-17*ddp {
@@ -478,7 +486,7 @@ func (s *Solution) CauchyPoints() ([][]PointResult, error) {
 			ue[2*a], ue[2*a+1] = s.U[2*n], s.U[2*n+1]
 		}
 		for ip, p := range m.rule {
-			g, err := m.pointGeometry(e, p, sc)
+			g, err := m.geometryAt(e, ip, p, sc)
 			if err != nil {
 				return nil, err
 			}

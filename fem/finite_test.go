@@ -533,20 +533,3 @@ func BenchmarkElementTangent(b *testing.B) {
 		})
 	}
 }
-
-// henckyValue is henckyStrain's strain without the derivatives: the same
-// numbers, small and large strains alike.
-func TestHenckyValue(t *testing.T) {
-	for _, gl := range [][4]float64{
-		{0, 0, 0, 0}, {1e-6, -2e-6, 3e-7, 1e-6}, {0.01, -0.004, 0.002, 0.003},
-		{0.2, -0.1, 0.05, 0.15}, {0.6, 0.3, -0.2, 0.4},
-	} {
-		want, _, _ := henckyStrain(gl, nil)
-		got := henckyValue(gl)
-		for i := range got {
-			if math.Abs(got[i]-want[i]) > 1e-15*(1+math.Abs(want[i])) {
-				t.Errorf("gl %v: component %d: %g, want %g", gl, i, got[i], want[i])
-			}
-		}
-	}
-}

@@ -14,25 +14,53 @@ type PointGeometry struct {
 
 // Kinematics turns the element's nodal displacements (x, z per node, in
 // element node order) into the strain measure a material.Law takes, and the
-// law's stress and tangent into nodal force and stiffness. Small strain is
-// the one here; a large-deformation formulation is another implementation
-// of the same interface, so assembly and the laws stay as they are.
+// law's stress and tangent into nodal force and stiffness. SmallStrain and
+// FiniteStrain implement it; the methods are the package's own, because
+// the two halves of a point's evaluation share working memory (pointWork)
+// that a worker of the assembly owns, so that what the strain needed (the
+// deformation gradient, the logarithm of C and its derivatives) is computed
+// once per point and nothing is allocated.
 type Kinematics interface {
-	// Strain at the point for displacements u.
-	Strain(c material.Condition, g *PointGeometry, u []float64) material.Vec4
-	// Accumulate adds the point's internal force to fe and, if ke is not
-	// nil, its tangent stiffness (row-major, len(u)×len(u)) to ke.
-	Accumulate(c material.Condition, g *PointGeometry, u []float64, stress material.Vec4, d *material.Mat4, fe, ke []float64)
+	// strain returns the strain at the point for displacements u and keeps
+	// in k what accumulate needs at the same point.
+	strain(c material.Condition, g *PointGeometry, u []float64, k *pointWork) material.Vec4
+	// accumulate adds the point's internal force to fe and, if ke is not
+	// nil, its tangent stiffness to the upper triangle of ke (row-major,
+	// nd×nd); the caller mirrors the triangle once per element (mirrorUpper).
+	// stress and d are the law's response to the strain of the last call
+	// of strain, at the same point.
+	accumulate(c material.Condition, g *PointGeometry, k *pointWork, stress material.Vec4, d *material.Mat4, fe, ke []float64)
 }
 
 // maxElementDofs bounds the dofs of one element (8 nodes × 2).
 const maxElementDofs = 16
 
+// maxElementNodes bounds the nodes of one element.
+const maxElementNodes = maxElementDofs / 2
+
+// pointWork is the working memory of one integration point's evaluation,
+// part of a worker's scratch: what strain computes for accumulate, and the
+// strain–displacement rows and their products with the tangent.
+type pointWork struct {
+	h     deformation   // F − I (FiniteStrain)
+	valid bool          // h is not inverted
+	log   logStrain     // ½ ln C and its derivatives (FiniteStrain)
+	d     material.Mat4 // the law's tangent
+	// b holds the columns of the strain–displacement matrix B of each
+	// node, db those of w·D·B: per node, so that the pass over the node
+	// pairs reads one record a node.
+	b  [maxElementNodes]nodeColumns
+	db [maxElementNodes]nodeColumns
+}
+
+// nodeColumns are the two columns of a 4-row matrix (B or w·D·B) that
+// belong to one node: x for u_x, z for u_z, rows xx, zz, yy, xz.
+type nodeColumns struct{ x, z [4]float64 }
+
 // SmallStrain is the geometrically linear formulation ε = B·u.
 type SmallStrain struct{}
 
-// Strain implements Kinematics.
-func (SmallStrain) Strain(c material.Condition, g *PointGeometry, u []float64) material.Vec4 {
+func (SmallStrain) strain(c material.Condition, g *PointGeometry, u []float64, _ *pointWork) material.Vec4 {
 	var e material.Vec4
 	for a := range g.N {
 		ux, uz := u[2*a], u[2*a+1]
@@ -46,76 +74,83 @@ func (SmallStrain) Strain(c material.Condition, g *PointGeometry, u []float64) m
 	return e
 }
 
-// fillB writes the strain–displacement matrix, 4 rows × 2n columns.
-func fillB(c material.Condition, g *PointGeometry, b [][]float64) {
-	for a := range g.N {
-		ix, iz := 2*a, 2*a+1
-		b[0][ix], b[0][iz] = g.DNdx[a], 0
-		b[1][ix], b[1][iz] = 0, g.DNdz[a]
-		b[2][ix], b[2][iz] = 0, 0
-		if c == material.Axisymmetric {
-			b[2][ix] = g.N[a] / g.X
-		}
-		b[3][ix], b[3][iz] = g.DNdz[a], g.DNdx[a]
-	}
-}
-
-// Accumulate implements Kinematics.
-func (SmallStrain) Accumulate(c material.Condition, g *PointGeometry, u []float64, stress material.Vec4, d *material.Mat4, fe, ke []float64) {
-	nd := len(u)
-	var bb [4][maxElementDofs]float64
-	var scratch [4 * maxElementDofs]float64
-	b := [][]float64{bb[0][:nd], bb[1][:nd], bb[2][:nd], bb[3][:nd]}
-	fillB(c, g, b)
+// accumulate of the small-strain B, whose column of node a is (∂N/∂x, 0,
+// N/x, ∂N/∂z) for u_x and (0, ∂N/∂z, 0, ∂N/∂x) for u_z (N/x in axisymmetry
+// only): the products skip its zeros.
+func (SmallStrain) accumulate(c material.Condition, g *PointGeometry, k *pointWork, stress material.Vec4, d *material.Mat4, fe, ke []float64) {
 	w := g.Weight
-	for j := 0; j < nd; j++ {
-		fe[j] += w * (b[0][j]*stress[0] + b[1][j]*stress[1] + b[2][j]*stress[2] + b[3][j]*stress[3])
+	axi := c == material.Axisymmetric
+	s0, s1, s2, s3 := w*stress[0], w*stress[1], w*stress[2], w*stress[3]
+	n := len(g.N)
+	fe = fe[:2*n]
+	for a := 0; a < n; a++ {
+		dx, dz := g.DNdx[a], g.DNdz[a]
+		fx := s0*dx + s3*dz
+		if axi {
+			r := g.N[a] / g.X
+			k.b[a].x[2] = r
+			fx += s2 * r
+		}
+		fe[2*a] += fx
+		fe[2*a+1] += s1*dz + s3*dx
 	}
 	if ke == nil {
 		return
 	}
-	addBtDB(b, d, w, ke, scratch[:])
-}
-
-// addBtDB adds w·BᵀDB to k (nd×nd, row-major); scratch holds 4·nd values.
-// D is symmetric (the tangent of every law in package material is), so only
-// the upper triangle is computed and mirrored; the yy row of B, zero outside
-// axisymmetry, is skipped when it is. The product dominated the assembly of
-// yielding, large-deformation runs.
-func addBtDB(b [][]float64, d *material.Mat4, w float64, k, scratch []float64) {
-	nd := len(b[0])
-	hoop := false
-	for _, v := range b[2] {
-		hoop = hoop || v != 0
-	}
-	db := scratch[:4*nd]
-	d0, d1, d2, d3 := db[:nd], db[nd:2*nd], db[2*nd:3*nd], db[3*nd:4*nd]
-	b0, b1, b2, b3 := b[0], b[1], b[2], b[3]
-	for j := 0; j < nd; j++ {
-		x0, x1, x3 := b0[j], b1[j], b3[j]
-		d0[j] = w * (d[0][0]*x0 + d[0][1]*x1 + d[0][3]*x3)
-		d1[j] = w * (d[1][0]*x0 + d[1][1]*x1 + d[1][3]*x3)
-		d3[j] = w * (d[3][0]*x0 + d[3][1]*x1 + d[3][3]*x3)
-		if hoop {
-			x2 := b2[j]
-			d0[j] += w * d[0][2] * x2
-			d1[j] += w * d[1][2] * x2
-			d3[j] += w * d[3][2] * x2
-			d2[j] = w * (d[2][0]*x0 + d[2][1]*x1 + d[2][2]*x2 + d[2][3]*x3)
+	var wd material.Mat4
+	for i := range wd {
+		for j := range wd[i] {
+			wd[i][j] = w * d[i][j]
 		}
 	}
-	for r := 0; r < nd; r++ {
-		y0, y1, y2, y3 := b0[r], b1[r], b2[r], b3[r]
-		kr := k[r*nd : (r+1)*nd]
-		for j := r; j < nd; j++ {
-			v := y0*d0[j] + y1*d1[j] + y3*d3[j]
-			if hoop {
-				v += y2 * d2[j]
+	// w·D·B, rows xx, zz, xz (and yy in axisymmetry).
+	for a := 0; a < n; a++ {
+		dx, dz := g.DNdx[a], g.DNdz[a]
+		db := &k.db[a]
+		db.x[0], db.z[0] = wd[0][0]*dx+wd[0][3]*dz, wd[0][1]*dz+wd[0][3]*dx
+		db.x[1], db.z[1] = wd[1][0]*dx+wd[1][3]*dz, wd[1][1]*dz+wd[1][3]*dx
+		db.x[3], db.z[3] = wd[3][0]*dx+wd[3][3]*dz, wd[3][1]*dz+wd[3][3]*dx
+		if axi {
+			r := k.b[a].x[2]
+			db.x[0] += wd[0][2] * r
+			db.x[1] += wd[1][2] * r
+			db.x[3] += wd[3][2] * r
+			db.x[2] = wd[2][0]*dx + wd[2][3]*dz + wd[2][2]*r
+			db.z[2] = wd[2][1]*dz + wd[2][3]*dx
+		}
+	}
+	nd := 2 * n
+	for a := 0; a < n; a++ {
+		dxa, dza := g.DNdx[a], g.DNdz[a]
+		ra := k.b[a].x[2]
+		rx, rz := ke[2*a*nd:(2*a+1)*nd], ke[(2*a+1)*nd:(2*a+2)*nd]
+		for b := a; b < n; b++ {
+			db := &k.db[b]
+			xx := dxa*db.x[0] + dza*db.x[3]
+			xz := dxa*db.z[0] + dza*db.z[3]
+			if axi {
+				xx += ra * db.x[2]
+				xz += ra * db.z[2]
 			}
-			kr[j] += v
-			if j != r {
-				k[j*nd+r] += v
+			px, pz := rx[2*b:2*b+2], rz[2*b:2*b+2]
+			px[0] += xx
+			px[1] += xz
+			if b != a { // the zx entry of a diagonal block is in the lower triangle
+				pz[0] += dza*db.x[1] + dxa*db.x[3]
 			}
+			pz[1] += dza*db.z[1] + dxa*db.z[3]
+		}
+	}
+}
+
+// mirrorUpper copies the upper triangle of the nd×nd row-major k into its
+// lower triangle: the element routines add to the upper triangle only, the
+// tangents of all laws here being symmetric.
+func mirrorUpper(k []float64, nd int) {
+	for r := 1; r < nd; r++ {
+		row := k[r*nd : r*nd+r]
+		for c := range row {
+			row[c] = k[c*nd+r]
 		}
 	}
 }

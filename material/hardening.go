@@ -14,6 +14,9 @@ import (
 type Hardening struct {
 	strain []float64 // ε̄_p at the points, strictly increasing, strain[0] = 0
 	stress []float64 // true yield stress at the points, MPa, non-decreasing
+	// slopes holds the hardening modulus of each segment (n − 1 values),
+	// found once: a return mapping asks for it at every iteration.
+	slopes []float64
 }
 
 // NewHardening validates and copies a hardening table: the first plastic
@@ -46,10 +49,15 @@ func NewHardening(plasticStrain, stress []float64) (Hardening, error) {
 			return Hardening{}, fmt.Errorf("material: hardening point %d: yield stress %g MPa below the previous point's %g: softening is not supported", i+1, s, stress[i-1])
 		}
 	}
-	return Hardening{
+	h := Hardening{
 		strain: append([]float64(nil), plasticStrain...),
 		stress: append([]float64(nil), stress...),
-	}, nil
+		slopes: make([]float64, n-1),
+	}
+	for i := range h.slopes {
+		h.slopes[i] = (h.stress[i+1] - h.stress[i]) / (h.strain[i+1] - h.strain[i])
+	}
+	return h, nil
 }
 
 // PerfectlyPlastic is hardening with a constant yield stress fy (MPa).
@@ -85,14 +93,11 @@ func (h Hardening) segment(ep float64) int {
 // slope is the hardening modulus of segment i; the last segment continues
 // the one before it.
 func (h Hardening) slope(i int) float64 {
-	n := len(h.strain)
-	if n == 1 {
+	n := len(h.slopes)
+	if n == 0 {
 		return 0
 	}
-	if i >= n-1 {
-		i = n - 2
-	}
-	return (h.stress[i+1] - h.stress[i]) / (h.strain[i+1] - h.strain[i])
+	return h.slopes[min(i, n-1)]
 }
 
 // Yield returns the yield stress σ_y(ε̄_p) in MPa and the hardening modulus

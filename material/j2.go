@@ -218,18 +218,24 @@ func (md *planeStressModes) at(dg float64) (a, b, t float64) {
 }
 
 // q returns the von Mises stress q = √(3J₂) at dg and dq/dΔγ. With σ_yy = 0,
-// J₂ = A²/12 + B²/4 + T².
+// J₂ = A²/12 + B²/4 + T². B and T share their rate (kb = kt = 2G), so two
+// divisions serve the three modes.
 func (md *planeStressModes) q(dg float64) (q, dq float64) {
-	a, b, t := md.at(dg)
-	j2 := a*a/12 + b*b/4 + t*t
+	ra, rb := 1/(1+md.ka*dg), 1/(1+md.kb*dg)
+	rt := rb
+	if md.kt != md.kb {
+		rt = 1 / (1 + md.kt*dg)
+	}
+	a, b, t := md.a*ra, md.b*rb, md.t*rt
+	j2 := a*a*(1.0/12) + b*b/4 + t*t
 	q = math.Sqrt(3 * j2)
 	if q == 0 {
 		return 0, 0
 	}
-	da := -a * md.ka / (1 + md.ka*dg)
-	db := -b * md.kb / (1 + md.kb*dg)
-	dt := -t * md.kt / (1 + md.kt*dg)
-	dj2 := a*da/6 + b*db/2 + 2*t*dt
+	da := -a * md.ka * ra
+	db := -b * md.kb * rb
+	dt := -t * md.kt * rt
+	dj2 := a*da*(1.0/6) + b*db/2 + 2*t*dt
 	return q, 1.5 * dj2 / q
 }
 
