@@ -45,6 +45,10 @@ type Plot struct {
 	Title, XLabel, YLabel string
 	Series                []Series
 	Markers               []Marker
+	// EqualAxes draws a unit of x and a unit of y at the same length on
+	// the page (the axis with the smaller span is widened), so that a
+	// circle in the data is a circle in the picture: polar plots.
+	EqualAxes bool
 }
 
 // Page size: 6 in × 4 in, which at pngDPI is 1200 × 800 px. The SVG has the
@@ -200,8 +204,25 @@ func render(c vg.CanvasSizer, p Plot) (err error) {
 	page.SetColor(color.White)
 	page.Fill(page.Rectangle.Path())
 	margin := vg.Points(6)
-	pl.Draw(draw.Crop(page, margin, -margin, margin, -margin))
+	area := draw.Crop(page, margin, -margin, margin, -margin)
+	if p.EqualAxes {
+		equalAxes(pl, pl.DataCanvas(area))
+	}
+	pl.Draw(area)
 	return nil
+}
+
+// equalAxes widens the axis of pl whose data span is the smaller per unit
+// of page length of the data area da, about its middle.
+func equalAxes(pl *plot.Plot, da draw.Canvas) {
+	w, h := float64(da.Max.X-da.Min.X), float64(da.Max.Y-da.Min.Y)
+	if !(w > 0 && h > 0) {
+		return
+	}
+	perPoint := max((pl.X.Max-pl.X.Min)/w, (pl.Y.Max-pl.Y.Min)/h)
+	cx, cy := (pl.X.Min+pl.X.Max)/2, (pl.Y.Min+pl.Y.Max)/2
+	pl.X.Min, pl.X.Max = cx-perPoint*w/2, cx+perPoint*w/2
+	pl.Y.Min, pl.Y.Max = cy-perPoint*h/2, cy+perPoint*h/2
 }
 
 // seriesColor returns the colour of series i, after Okabe & Ito (2008),

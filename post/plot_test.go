@@ -16,6 +16,7 @@ import (
 	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgimg"
 )
 
 // forcePlot is a made-up force–displacement chart: a smooth curve, a
@@ -345,6 +346,38 @@ func BenchmarkEncodePNG(b *testing.B) {
 	for b.Loop() {
 		if err := EncodePNG(io.Discard, p); err != nil {
 			b.Fatal(err)
+		}
+	}
+}
+
+// A polar plot with EqualAxes draws a unit circle as a circle: one data
+// unit is as long on the page in x as in y, and the circle stays inside
+// both axes.
+func TestEqualAxes(t *testing.T) {
+	var circle Series
+	for k := 0; k <= 72; k++ {
+		th := 2 * math.Pi * float64(k) / 72
+		circle.X, circle.Y = append(circle.X, math.Sin(th)), append(circle.Y, math.Cos(th))
+	}
+	for _, equal := range []bool{false, true} {
+		p := Plot{Title: "circle", XLabel: "x", YLabel: "y", Series: []Series{circle}, EqualAxes: equal}
+		pl := build(p)
+		c := vgimg.NewWith(vgimg.UseWH(plotWidth, plotHeight), vgimg.UseDPI(pngDPI))
+		area := draw.New(c)
+		if equal {
+			equalAxes(pl, pl.DataCanvas(area))
+		}
+		da := pl.DataCanvas(area)
+		w, h := float64(da.Max.X-da.Min.X), float64(da.Max.Y-da.Min.Y)
+		ratio := ((pl.X.Max - pl.X.Min) / w) / ((pl.Y.Max - pl.Y.Min) / h)
+		if equal && math.Abs(ratio-1) > 0.02 {
+			t.Errorf("equal axes: a unit of x is %.3f times a unit of y on the page", 1/ratio)
+		}
+		if !equal && math.Abs(ratio-1) < 0.1 {
+			t.Errorf("without equal axes the 6 × 4 in page should stretch the circle; ratio %.3f", ratio)
+		}
+		if pl.X.Min > -1 || pl.X.Max < 1 || pl.Y.Min > -1 || pl.Y.Max < 1 {
+			t.Errorf("axes x [%g, %g], y [%g, %g] cut the unit circle", pl.X.Min, pl.X.Max, pl.Y.Min, pl.Y.Max)
 		}
 	}
 }

@@ -34,13 +34,13 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 	if len(bs) == 0 {
 		return nil, nil, nil
 	}
-	gap := post.Plot{Title: "Gap at the bolt before and after the preload, around the ring (0° at the top, clockwise; radius: gap)",
+	gap := post.Plot{EqualAxes: true, Title: "Gap at the bolt before and after the preload, around the ring (0° at the top, clockwise; radius: gap)",
 		XLabel: "gap [mm]", YLabel: "gap [mm]",
 		Series: []post.Series{
 			polar("parallel gap before tightening", bs, func(b BoltResult) float64 { return b.Parallel }, true),
 			polar("largest gap left after the preload", bs, func(b BoltResult) float64 { return b.GapLeftMM }, false),
 		}}
-	clamp := post.Plot{Title: "Preload and clamp force left on the faces after closing, around the ring (radius: force)",
+	clamp := post.Plot{EqualAxes: true, Title: "Preload and clamp force left on the faces after closing, around the ring (radius: force)",
 		XLabel: "force [kN]", YLabel: "force [kN]",
 		Series: []post.Series{
 			polar("preload", bs, func(b BoltResult) float64 { return b.PreloadKN }, true),
@@ -49,7 +49,7 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 	stems = []string{"ring_gap", "ring_clamp"}
 	around = []post.Plot{gap, clamp}
 	if res.Loads != nil {
-		damage := post.Plot{Title: "Fatigue damage D per bolt, around the ring (radius: D; dashed: D = 1)",
+		damage := post.Plot{EqualAxes: true, Title: "Fatigue damage D per bolt, around the ring (radius: D; dashed: D = 1)",
 			XLabel: "D [–]", YLabel: "D [–]",
 			Series: []post.Series{
 				polar("FE", bs, func(b BoltResult) float64 { return fe(b) }, false),
