@@ -60,11 +60,11 @@ func (p *Pair) Evaluate(cur []Point, tangent bool, add func(dofs []int, f, k []f
 		// A sliding point whose slip turns round changes branch too.
 		turned := e.status == sliding && p.trial[i].status == sliding && e.sign != p.lastSign[i]
 		p.changed[i] = p.hasEvaluated && (e.status != p.trial[i].status || turned)
+		if p.changed[i] {
+			p.noteChange(i, e.status, e.sign)
+		}
 		p.lastPressure[i] = e.pN
 		p.lastSign[i] = e.sign
-		if p.changed[i] && p.flips[i] < 255 {
-			p.flips[i]++
-		}
 		p.trial[i] = trialState{status: e.status, proj: location{seg: e.seg, r: e.m.r}, anchor: e.keep}
 		if e.status == unpaired || e.status == open {
 			continue

@@ -39,7 +39,56 @@ func (p *Pair) heldSign(i int) float64 {
 // in it yet and none is frozen.
 func (p *Pair) ResetFlips() {
 	clear(p.flips)
+	clear(p.returns)
 	p.held = nil
+}
+
+// noteChange counts a change of point i to status st with slip sign
+// sign, from the status of its last evaluation.
+func (p *Pair) noteChange(i int, st status, sign float64) {
+	back := p.flips[i] > 0 && st == p.prior[i] && (st != sliding || sign == p.priorSign[i])
+	if back && p.returns[i] < 255 {
+		p.returns[i]++
+	}
+	if p.flips[i] < 255 {
+		p.flips[i]++
+	}
+	p.prior[i], p.priorSign[i] = p.trial[i].status, p.lastSign[i]
+}
+
+// Cycling counts the free points that have gone back to an earlier
+// status at least once in the current solve.
+func (p *Pair) Cycling() int {
+	n := 0
+	for i := range p.points {
+		if (p.held == nil || p.held[i] == unpaired) && p.returns[i] > 0 && p.trial[i].status != unpaired {
+			n++
+		}
+	}
+	return n
+}
+
+// FreezeCycling is Freeze for the points that Cycling counts: it holds
+// the points that have gone back to an earlier status, not those that a
+// moving contact edge has carried through two statuses in one direction
+// (sticking, sliding, open), and returns how many points are held in all.
+func (p *Pair) FreezeCycling() int {
+	n := 0
+	for i := range p.points {
+		if p.held != nil && p.held[i] != unpaired {
+			n++
+			continue
+		}
+		if p.returns[i] == 0 || p.trial[i].status == unpaired {
+			continue
+		}
+		if p.held == nil {
+			p.held = make([]status, len(p.points))
+		}
+		p.held[i] = p.trial[i].status
+		n++
+	}
+	return n
 }
 
 // Flipping counts the free points that have changed status at least

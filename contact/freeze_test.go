@@ -74,6 +74,46 @@ func TestFreezeHoldsAndCorrects(t *testing.T) {
 	}
 }
 
+// TestCyclingCountsReturns: points that go back to an earlier status
+// (pressed, open, pressed) are cycling and FreezeCycling holds them;
+// points that change once and stay (pressed, open, open wider), or never
+// change, are not.
+func TestCyclingCountsReturns(t *testing.T) {
+	m := flat(4, 2, 3, 2)
+	cases := []struct {
+		name    string
+		dz      []float64
+		cycling int
+	}{
+		{"pressed, open, pressed", []float64{-1e-3, 1e-3, -1e-3}, len(m.slaveNodes())},
+		{"pressed, open, open", []float64{-1e-3, 1e-3, 2e-3}, 0},
+		{"pressed, pressed harder", []float64{-1e-3, -2e-3}, 0},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			p := mustPair(t, m, Settings{Penalty: 1000}, nil, nil)
+			p.ResetFlips()
+			for _, dz := range c.dz {
+				assemble(t, p, shifted(m, dz), false)
+			}
+			want := 0
+			if c.cycling > 0 {
+				want = len(p.points)
+			}
+			if n := p.Cycling(); n != want {
+				t.Errorf("%d points cycling, want %d", n, want)
+			}
+			if n := p.FreezeCycling(); n != want {
+				t.Errorf("%d points frozen, want %d", n, want)
+			}
+			p.ResetFlips()
+			if n := p.Cycling(); n != 0 {
+				t.Errorf("after ResetFlips %d points cycling, want 0", n)
+			}
+		})
+	}
+}
+
 // TestGlueHoldsTheWashers: a glued pair keeps pulling a lifted slave; let
 // go, it does not.
 func TestGlueHoldsTheWashers(t *testing.T) {

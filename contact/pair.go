@@ -119,6 +119,13 @@ type Pair struct {
 	flips    []uint8
 	held     []status
 	lastSign []float64
+	// returns counts each point's changes in the current solve back to
+	// the status (and slip direction) it had before its previous change:
+	// a point going round a cycle, not one carried along by a moving
+	// contact edge; prior and priorSign are that earlier status.
+	returns   []uint8
+	prior     []status
+	priorSign []float64
 	// glued: the status Glue holds every point at (unpaired: none).
 	glued status
 }
@@ -421,6 +428,9 @@ func (p *Pair) initialState(ref []Point) error {
 	p.changed = make([]bool, len(p.points))
 	p.lastPressure = make([]float64, len(p.points))
 	p.flips = make([]uint8, len(p.points))
+	p.returns = make([]uint8, len(p.points))
+	p.prior = make([]status, len(p.points))
+	p.priorSign = make([]float64, len(p.points))
 	p.lastSign = make([]float64, len(p.points))
 	facing, same := 0, 0
 	for i := range p.points {

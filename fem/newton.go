@@ -29,6 +29,8 @@ type ContactPair interface {
 	ResetFlips()
 	Flipping(minFlips int) int
 	Freeze(minFlips int) int
+	Cycling() int
+	FreezeCycling() int
 	Thaw(cur []contact.Point) float64
 	Correct(cur []contact.Point, tol float64) (worst float64, changed int)
 	// MaxPenetration is the largest penetration at cur, mm.
@@ -127,6 +129,10 @@ type Solver struct {
 	// budget: the Newton iterations the equilibrium solve under way may
 	// take in all (RampOptions.Budget), 0 for none.
 	budget int
+	// budgeted: the solves of a ramp that has an iteration budget (the
+	// tension stage), at every step size; only they freeze late
+	// (freezeStalled).
+	budgeted bool
 }
 
 // coupling is a dense unsymmetric block over equations (−1: none).
@@ -346,18 +352,31 @@ func (s *Solver) newton(fext []float64, limit int) (int, error) {
 		}
 		prev, step = nr, 1
 		copy(last, s.u)
-		if it >= freezeAfter && (rel < freezeBelow*s.watch.first || it >= freezeStalled && !s.patient) && s.corrections <= s.maxCorrections() {
+		// Late in an increment under a budget, points that have gone back
+		// to an earlier status are frozen whatever the residual: they
+		// cycle, and the budget would halve the step for them.
+		early := rel < freezeBelow*s.watch.first
+		late := !early && it >= freezeStalled && s.budgeted
+		if it >= freezeAfter && (early || late) && s.corrections <= s.maxCorrections() {
 			// Freezing suits a few points chattering at a kink; where many
 			// flip, the active set is still being found, and freezing it
 			// would only fix a wrong guess.
 			candidates := 0
 			for _, p := range s.pairs {
-				candidates += p.Flipping(2)
+				if late {
+					candidates += p.Cycling()
+				} else {
+					candidates += p.Flipping(2)
+				}
 			}
 			n := 0
 			if candidates <= maxFreeze {
 				for _, p := range s.pairs {
-					n += p.Freeze(2)
+					if late {
+						n += p.FreezeCycling()
+					} else {
+						n += p.Freeze(2)
+					}
 				}
 			}
 			if n > 0 && !s.anyFrozen {

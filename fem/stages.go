@@ -76,6 +76,8 @@ func (s *Solver) Ramp(d Dof, target float64, opt RampOptions, done func(Incremen
 	if opt.MaxCuts == 0 {
 		opt.MaxCuts = 6
 	}
+	s.budgeted = opt.Budget > 0
+	defer func() { s.budgeted = false }()
 	start := s.m.Value(d)
 	span := target - start
 	step := 1.0 / float64(opt.Increments)

@@ -196,6 +196,8 @@ func (s *gapSpring) Changes() []contact.Change                       { return ni
 func (s *gapSpring) ResetFlips()                                     {}
 func (s *gapSpring) Flipping(int) int                                { return 0 }
 func (s *gapSpring) Freeze(int) int                                  { return 0 }
+func (s *gapSpring) Cycling() int                                    { return 0 }
+func (s *gapSpring) FreezeCycling() int                              { return 0 }
 func (s *gapSpring) Thaw([]contact.Point) float64                    { return 0 }
 func (s *gapSpring) Correct([]contact.Point, float64) (float64, int) { return 0, 0 }
 func (s *gapSpring) MaxPenetration([]contact.Point) float64          { return 0 }
