@@ -213,6 +213,11 @@ func TestRingChecks(t *testing.T) {
 	if err != nil || !bytes.Contains(page, []byte("Governing bolt: 40")) || !bytes.Contains(page, []byte("design aid")) {
 		t.Errorf("report.html does not name the governing bolt or lacks the caution (%v)", err)
 	}
+	for _, want := range []string{`aria-label="survey conventions"`, "gap_inner_mm", "gap_outer_mm", "0° · bolt 1"} {
+		if !bytes.Contains(page, []byte(want)) {
+			t.Errorf("report.html lacks the sketch of the survey's conventions (%q)", want)
+		}
+	}
 	// Run again: every class is found done, and the tables come out the same.
 	before, _ := os.ReadFile(filepath.Join(out, "ring.csv"))
 	stdout.Reset()

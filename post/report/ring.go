@@ -26,6 +26,9 @@ type Ring struct {
 	Curves   []post.Plot // bolt-force functions of the classes
 	Notes    []string    // conventions and limits
 	Warnings []string
+	// External: the flange is external (its free edge is the outer edge of
+	// the face); the sketch of the survey's conventions follows it.
+	External bool
 }
 
 func (r Ring) validate() error {
@@ -66,7 +69,10 @@ func WriteRing(path string, r Ring) error {
 		{"Around the circumference", func(d *doc) error { return d.plots(r.Around, "No results to plot.") }},
 		{"Bolt-force functions of the classes", func(d *doc) error { return d.plots(r.Curves, "No class has a history.") }},
 		{"Every bolt", func(d *doc) error { return tableOrNone(d, r.Bolts, "No bolts.") }},
-		{"Conventions and notes", paras(append(append([]string(nil), r.Warnings...), r.Notes...), "No notes.")},
+		{"Conventions and notes", func(d *doc) error {
+			d.figure(surveyDrawing(r.External), "The survey's conventions: bolt numbers and angles around the ring, and the gaps at the inner and outer edge of the face.", "")
+			return paras(append(append([]string(nil), r.Warnings...), r.Notes...), "No notes.")(d)
+		}},
 		limits(r.Caution),
 	}
 	if err := d.sections("", 2, parts); err != nil {

@@ -164,7 +164,8 @@ func (res *Result) WritePage(path string) error {
 	sum := sha256.Sum256(p.Sweep.BaseText)
 	r := report.Ring{Title: "Ring check: " + p.Spec.Title, Survey: p.Survey, Caution: post.Caution,
 		Generated: fmt.Sprintf("flangeseg %s; model sha256 %s", post.Version, hex.EncodeToString(sum[:8])),
-		Finding:   res.Finding(), Around: around, Curves: curves, Warnings: res.Warnings, Notes: notes()}
+		Finding:   res.Finding(), Around: around, Curves: curves, Warnings: res.Warnings, Notes: notes(),
+		External: p.Options.Flange == External}
 	r.Setup = report.Quantities{Caption: "What the check is made of", Rows: []report.Quantity{
 		{Name: "model file", Value: report.Text(filepath.Base(p.Model)), Source: "command line"},
 		{Name: "survey file", Value: report.Text(p.Survey), Source: "--survey"},
