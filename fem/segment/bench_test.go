@@ -60,6 +60,8 @@ func BenchmarkFailure(b *testing.B) {
 		b.ReportMetric(tm.Factorization.Seconds(), "factor-s")
 		b.ReportMetric(tm.Solve.Seconds(), "solve-s")
 		b.ReportMetric(tm.Contact.Seconds(), "contact-s")
+		b.ReportMetric(float64(tm.Factorizations), "factorizations")
+		b.ReportMetric(float64(tm.KrylovSteps), "gmres-steps")
 		b.ReportMetric(jointFigures(g, res).PeakLoadKN, "peak-kN")
 	}
 }

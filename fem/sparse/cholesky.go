@@ -55,6 +55,8 @@ type Cholesky struct {
 	plan    *plan
 	ws      []*workspace
 	upd     [][]float64 // update matrices that outlive a worker's stack
+
+	solvePool *sync.Pool // of *solveSpace
 }
 
 // plan assigns independent subtrees of the supernodal tree to workers; the
@@ -83,8 +85,9 @@ type failure struct {
 	pivot float64
 }
 
-// SetWorkers sets how many goroutines Factorize may use; n ≤ 0 means
-// runtime.GOMAXPROCS(0). The factor does not depend on it, bit for bit.
+// SetWorkers sets how many goroutines Factorize and the solves may use;
+// n ≤ 0 means runtime.GOMAXPROCS(0). The factor and the solutions do not
+// depend on it, bit for bit.
 func (c *Cholesky) SetWorkers(n int) {
 	c.workers = max(0, n)
 }
@@ -209,6 +212,9 @@ func (c *Cholesky) prepare(s *Symbolic) {
 	}
 	if c.sym != s || len(c.lx) != s.lPtr[s.nsuper] {
 		c.lx = make([]float64, s.lPtr[s.nsuper])
+	}
+	if c.sym != s {
+		c.solvePool = newSolvePool(s)
 	}
 	c.sym = s
 	c.plan = s.newPlan(w)
@@ -486,130 +492,6 @@ func parallelTriangle(par, n int, depth float64, fn func(i0, i1 int)) {
 		}()
 	}
 	wg.Wait()
-}
-
-// SolveVecTo solves A x = b for x, stored in dst. dst may alias b.
-func (c *Cholesky) SolveVecTo(dst, b []float64) error {
-	if !c.valid {
-		return fmt.Errorf("sparse: SolveVecTo: %w", errNoFactor)
-	}
-	n := c.sym.n
-	if len(dst) != n || len(b) != n {
-		return fmt.Errorf("sparse: SolveVecTo: len(dst) = %d, len(b) = %d, want %d: %w", len(dst), len(b), n, errLength)
-	}
-	y := make([]float64, n)
-	c.solve(dst, b, y)
-	return nil
-}
-
-// SolveTo solves A X = B for k right-hand sides; b and dst are n×k,
-// column-major (column j is b[j*n:(j+1)*n]). dst may alias b. Each column
-// gives the same bits as SolveVecTo.
-func (c *Cholesky) SolveTo(dst, b []float64, k int) error {
-	if !c.valid {
-		return fmt.Errorf("sparse: SolveTo: %w", errNoFactor)
-	}
-	n := c.sym.n
-	if k < 0 || len(dst) != n*k || len(b) != n*k {
-		return fmt.Errorf("sparse: SolveTo: len(dst) = %d, len(b) = %d, want %d·%d: %w", len(dst), len(b), n, k, errLength)
-	}
-	y := make([]float64, n)
-	for j := 0; j < k; j++ {
-		c.solve(dst[j*n:(j+1)*n], b[j*n:(j+1)*n], y)
-	}
-	return nil
-}
-
-// solve computes dst = A⁻¹ b through y = L⁻¹ P b and x = Pᵀ L⁻ᵀ y.
-func (c *Cholesky) solve(dst, b, y []float64) {
-	s := c.sym
-	for k, i := range s.perm {
-		y[k] = b[i]
-	}
-	for t := 0; t < s.nsuper; t++ {
-		f, l := s.super[t], s.super[t+1]
-		k := l - f
-		rows := s.rows[s.rowPtr[t]+k : s.rowPtr[t+1]]
-		L := c.lx[s.lPtr[t]:s.lPtr[t+1]]
-		x := y[f:l]
-		for j := range x {
-			rj := L[j*k : j*k+j+1]
-			x[j] = (x[j] - dot(rj[:j], x[:j])) / rj[j]
-		}
-		subtractRows(y, rows, L[k*k:], x)
-	}
-	for t := s.nsuper - 1; t >= 0; t-- {
-		f, l := s.super[t], s.super[t+1]
-		k := l - f
-		rows := s.rows[s.rowPtr[t]+k : s.rowPtr[t+1]]
-		L := c.lx[s.lPtr[t]:s.lPtr[t+1]]
-		x := y[f:l]
-		subtractColumns(x, L[k*k:], rows, y)
-		for j := k - 1; j >= 0; j-- {
-			rj := L[j*k : j*k+j+1]
-			x[j] /= rj[j]
-			xj := x[j]
-			for p := 0; p < j; p++ {
-				x[p] -= rj[p] * xj
-			}
-		}
-	}
-	for k, i := range s.perm {
-		dst[i] = y[k]
-	}
-}
-
-// subtractRows does y[rows[a]] −= B[a,:]·x for the row-major block B
-// (len(rows)×len(x)), four rows at a time: the solves are bound by the
-// latency of one running sum per row, not by the arithmetic.
-func subtractRows(y []float64, rows []int32, B, x []float64) {
-	k := len(x)
-	a := 0
-	for ; a+4 <= len(rows); a += 4 {
-		r0 := B[a*k : a*k+k]
-		r1 := B[(a+1)*k : (a+1)*k+k]
-		r2 := B[(a+2)*k : (a+2)*k+k]
-		r3 := B[(a+3)*k : (a+3)*k+k]
-		var s0, s1, s2, s3 float64
-		for j, v := range x {
-			s0 += r0[j] * v
-			s1 += r1[j] * v
-			s2 += r2[j] * v
-			s3 += r3[j] * v
-		}
-		y[rows[a]] -= s0
-		y[rows[a+1]] -= s1
-		y[rows[a+2]] -= s2
-		y[rows[a+3]] -= s3
-	}
-	for ; a < len(rows); a++ {
-		y[rows[a]] -= dot(B[a*k:a*k+k], x)
-	}
-}
-
-// subtractColumns does x −= Bᵀ·y[rows] for the row-major block B
-// (len(rows)×len(x)), four rows at a time so that x is read and written
-// once per four.
-func subtractColumns(x, B []float64, rows []int32, y []float64) {
-	k := len(x)
-	a := 0
-	for ; a+4 <= len(rows); a += 4 {
-		r0 := B[a*k : a*k+k]
-		r1 := B[(a+1)*k : (a+1)*k+k]
-		r2 := B[(a+2)*k : (a+2)*k+k]
-		r3 := B[(a+3)*k : (a+3)*k+k]
-		y0, y1, y2, y3 := y[rows[a]], y[rows[a+1]], y[rows[a+2]], y[rows[a+3]]
-		for j := range x {
-			x[j] -= r0[j]*y0 + r1[j]*y1 + r2[j]*y2 + r3[j]*y3
-		}
-	}
-	for ; a < len(rows); a++ {
-		ya := y[rows[a]]
-		ra := B[a*k : a*k+k]
-		for j := range x {
-			x[j] -= ra[j] * ya
-		}
-	}
 }
 
 // LogDet returns the natural logarithm of the determinant of A, or NaN

@@ -26,8 +26,10 @@
 //	}
 //
 // Factorize reuses its memory across calls with the same Symbolic and runs
-// on up to GOMAXPROCS goroutines (see Cholesky.SetWorkers); the factor, and
-// so every solution, is the same bit for bit whatever the number of
-// workers. Input arguments are never modified, except the receiver of
+// on up to GOMAXPROCS goroutines (see Cholesky.SetWorkers), and so do the
+// solves, over two parts of the elimination tree fixed by the analysis;
+// the factor and every solution are the same bit for bit whatever the
+// number of workers. Cholesky32 holds the factor rounded to float32, for
+// an iterative solver's preconditioner: half the memory to read. Input arguments are never modified, except the receiver of
 // Matrix's mutating methods.
 package sparse

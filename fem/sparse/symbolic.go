@@ -77,6 +77,8 @@ type Symbolic struct {
 	childPtr []int
 	child    []int
 	work     []float64 // estimated cost of each supernode's front
+
+	solve *solvePlan // split of the tree for the triangular solves
 }
 
 // Analyze computes the symbolic factorization of m's pattern with the given
@@ -131,6 +133,7 @@ func Analyze(m *Matrix, ord Ordering) (*Symbolic, error) {
 		s.flops += float64(c) * float64(c)
 	}
 	s.supernodes(parent, cc)
+	s.solve = s.newSolvePlan(solveParts)
 	return s, nil
 }
 
