@@ -59,13 +59,7 @@ func (p *Pair) noteChange(i int, st status, sign float64) {
 // Cycling counts the free points that have gone back to an earlier
 // status at least once in the current solve.
 func (p *Pair) Cycling() int {
-	n := 0
-	for i := range p.points {
-		if (p.held == nil || p.held[i] == unpaired) && p.returns[i] > 0 && p.trial[i].status != unpaired {
-			n++
-		}
-	}
-	return n
+	return p.countFree(func(i int) bool { return p.returns[i] > 0 })
 }
 
 // FreezeCycling is Freeze for the points that Cycling counts: it holds
@@ -73,34 +67,13 @@ func (p *Pair) Cycling() int {
 // moving contact edge has carried through two statuses in one direction
 // (sticking, sliding, open), and returns how many points are held in all.
 func (p *Pair) FreezeCycling() int {
-	n := 0
-	for i := range p.points {
-		if p.held != nil && p.held[i] != unpaired {
-			n++
-			continue
-		}
-		if p.returns[i] == 0 || p.trial[i].status == unpaired {
-			continue
-		}
-		if p.held == nil {
-			p.held = make([]status, len(p.points))
-		}
-		p.held[i] = p.trial[i].status
-		n++
-	}
-	return n
+	return p.hold(func(i int) bool { return p.returns[i] > 0 })
 }
 
 // Flipping counts the free points that have changed status at least
 // minFlips times in the current solve.
 func (p *Pair) Flipping(minFlips int) int {
-	n := 0
-	for i := range p.points {
-		if (p.held == nil || p.held[i] == unpaired) && int(p.flips[i]) >= minFlips && p.trial[i].status != unpaired {
-			n++
-		}
-	}
-	return n
+	return p.countFree(func(i int) bool { return int(p.flips[i]) >= minFlips })
 }
 
 // Freeze holds every point that has changed status at least minFlips
@@ -109,13 +82,30 @@ func (p *Pair) Flipping(minFlips int) int {
 // branch of the contact law — open, pressed, sticking, or sliding in the
 // same direction — until Thaw, whatever its gap or traction says.
 func (p *Pair) Freeze(minFlips int) int {
+	return p.hold(func(i int) bool { return int(p.flips[i]) >= minFlips })
+}
+
+// countFree counts the free, paired points that pick selects.
+func (p *Pair) countFree(pick func(i int) bool) int {
+	n := 0
+	for i := range p.points {
+		if (p.held == nil || p.held[i] == unpaired) && p.trial[i].status != unpaired && pick(i) {
+			n++
+		}
+	}
+	return n
+}
+
+// hold holds the paired points that pick selects at the status of their
+// last Evaluate, and returns how many points are held in all.
+func (p *Pair) hold(pick func(i int) bool) int {
 	n := 0
 	for i := range p.points {
 		if p.held != nil && p.held[i] != unpaired {
 			n++
 			continue
 		}
-		if int(p.flips[i]) < minFlips || p.trial[i].status == unpaired {
+		if p.trial[i].status == unpaired || !pick(i) {
 			continue
 		}
 		if p.held == nil {

@@ -1,6 +1,7 @@
 package mesh
 
 import (
+	"cmp"
 	"errors"
 	"math"
 	"reflect"
@@ -420,7 +421,7 @@ func TestFlangeSegmentMirror(t *testing.T) {
 			}
 			for _, p := range upper {
 				// lower is sorted by x: look through the nodes within 1e-9 of p.X.
-				i, _ := slices.BinarySearchFunc(lower, p.X-1e-9, func(q Point, x float64) int { return cmpFloat(q.X, x) })
+				i, _ := slices.BinarySearchFunc(lower, p.X-1e-9, func(q Point, x float64) int { return cmp.Compare(q.X, x) })
 				found := false
 				for ; i < len(lower) && lower[i].X <= p.X+1e-9 && !found; i++ {
 					found = dist(lower[i], p) <= 1e-9
@@ -437,21 +438,11 @@ func TestFlangeSegmentMirror(t *testing.T) {
 func distinct(ps []Point) []Point {
 	slices.SortFunc(ps, func(a, b Point) int {
 		if a.X != b.X {
-			return cmpFloat(a.X, b.X)
+			return cmp.Compare(a.X, b.X)
 		}
-		return cmpFloat(a.Z, b.Z)
+		return cmp.Compare(a.Z, b.Z)
 	})
 	return slices.Compact(ps)
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 // TestFlangeSegmentQuality requires Check to pass and bounds the shape

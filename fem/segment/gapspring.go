@@ -1,6 +1,7 @@
 package segment
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -94,7 +95,7 @@ func (g *segment) springFace(set string) (nodes []int, w, ref []float64, err err
 	for n := range weight {
 		nodes = append(nodes, n)
 	}
-	slices.SortFunc(nodes, func(a, b int) int { return compareFloat(msh.Nodes[a].X, msh.Nodes[b].X) })
+	slices.SortFunc(nodes, func(a, b int) int { return cmp.Compare(msh.Nodes[a].X, msh.Nodes[b].X) })
 	var total float64
 	for _, n := range nodes {
 		total += weight[n]
@@ -104,16 +105,6 @@ func (g *segment) springFace(set string) (nodes []int, w, ref []float64, err err
 		ref = append(ref, msh.Nodes[n].Z)
 	}
 	return nodes, w, ref, nil
-}
-
-func compareFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 // Approach is the mean closing at cur, mm: how far the upper face has

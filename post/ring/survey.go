@@ -1,6 +1,7 @@
 package ring
 
 import (
+	"cmp"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -221,7 +222,7 @@ func ReadSurvey(r io.Reader, name string, n int) (*Survey, error) {
 	if len(s.Points) == 0 {
 		return nil, fail(0, "no measuring positions: give at least one data line under the header")
 	}
-	slices.SortStableFunc(s.Points, func(a, b Point) int { return cmpFloat(a.Angle, b.Angle) })
+	slices.SortStableFunc(s.Points, func(a, b Point) int { return cmp.Compare(a.Angle, b.Angle) })
 	return s, nil
 }
 
@@ -246,7 +247,7 @@ func (s *Survey) At(theta float64) (inner, outer float64) {
 		theta += 360
 	}
 	// The position at or after theta, and the one before it, wrapping.
-	j, _ := slices.BinarySearchFunc(pts, theta, func(p Point, t float64) int { return cmpFloat(p.Angle, t) })
+	j, _ := slices.BinarySearchFunc(pts, theta, func(p Point, t float64) int { return cmp.Compare(p.Angle, t) })
 	if j < len(pts) && pts[j].Angle == theta {
 		return pts[j].Inner, pts[j].Outer
 	}
@@ -262,16 +263,6 @@ func (s *Survey) At(theta float64) (inner, outer float64) {
 	}
 	w := (t - a0) / (a1 - a0)
 	return pts[lo].Inner + w*(pts[hi].Inner-pts[lo].Inner), pts[lo].Outer + w*(pts[hi].Outer-pts[lo].Outer)
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 // formatNumber writes a number as the survey or the model file would.
