@@ -156,7 +156,8 @@ func TestClosingNutTurnLeavesGap(t *testing.T) {
 
 // TestPreloadUnchanged: the preload path is main's at 1a0ab3a for every
 // joint, the closing search being a separate model: the same bolt force
-// and the same equilibrium solves and Newton iterations, read there from
+// and the same equilibrium solves and Newton iterations (a solver change
+// that saves iterations updates them, saying so), read there from
 // the same coarse demo joint, flat and with a taper of 0.2°. A change
 // here means the analysis's path changed, which the search must not do.
 func TestPreloadUnchanged(t *testing.T) {
@@ -169,7 +170,9 @@ func TestPreloadUnchanged(t *testing.T) {
 	}{
 		{"fraction 1.0", nil, 1030331.8919070191, 3, 45},
 		{"nut turn 60°", func(s *modelfile.Spec) { s.Preload = modelfile.PreloadSpec{NutTurn: &turn} }, 1060897.1846169732, 4, 55},
-		{"taper 0.2°", func(s *modelfile.Spec) { s.Contact.Taper = 0.2 }, 1031085.3929966657, 3, 94},
+		// 92 iterations since the early check of frozen points (94 before;
+		// the same force to ten digits).
+		{"taper 0.2°", func(s *modelfile.Spec) { s.Contact.Taper = 0.2 }, 1031085.3929966657, 3, 92},
 	}
 	for _, c := range cases {
 		_, res := coarseDemo(t, c.edit)
