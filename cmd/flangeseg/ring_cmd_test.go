@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -138,11 +139,21 @@ func TestRingChecks(t *testing.T) {
 20000,18000,3000,1e4
 36000,20000,3000,100
 `)
+	// As on a batch cluster: two shards of the classes, then the tables
+	// collected from their folders (the resumed run at the end checks that
+	// they equal a whole run's).
 	out := filepath.Join(dir, "ring")
 	var stdout, stderr bytes.Buffer
-	code := run([]string{"ring", model, "--survey", survey, "--loads", loads, "-o", out, "--spring-tolerance", "1", "--jobs", "2"}, &stdout, &stderr)
-	if code != exitOK {
-		t.Fatalf("exit %d\n%s\n%s", code, stdout.String(), stderr.String())
+	args := []string{"ring", model, "--survey", survey, "--loads", loads, "-o", out, "--spring-tolerance", "1"}
+	for _, extra := range [][]string{{"--shard", "1/2"}, {"--shard", "2/2"}, {"--collect"}} {
+		if code := run(append(slices.Clone(args), extra...), &stdout, &stderr); code != exitOK {
+			t.Fatalf("%v: exit %d\n%s\n%s", extra, code, stdout.String(), stderr.String())
+		}
+		if extra[0] == "--shard" {
+			if _, err := os.Stat(filepath.Join(out, "ring.csv")); err == nil {
+				t.Fatalf("%v: a shard wrote ring.csv: only the collection may", extra)
+			}
+		}
 	}
 	bolts := readRing(t, out)
 	if len(bolts) != 120 {
@@ -218,10 +229,12 @@ func TestRingChecks(t *testing.T) {
 			t.Errorf("report.html lacks the sketch of the survey's conventions (%q)", want)
 		}
 	}
-	// Run again: every class is found done, and the tables come out the same.
+	// Run again, whole: every class is found done, and the tables come out
+	// the same as collected from the shards.
 	before, _ := os.ReadFile(filepath.Join(out, "ring.csv"))
 	stdout.Reset()
-	if code := run([]string{"ring", model, "--survey", survey, "--loads", loads, "-o", out, "--spring-tolerance", "1"}, &stdout, &stderr); code != exitOK {
+	stderr.Reset()
+	if code := run(args, &stdout, &stderr); code != exitOK {
 		t.Fatalf("again: exit %d\n%s", code, stderr.String())
 	}
 	after, _ := os.ReadFile(filepath.Join(out, "ring.csv"))
