@@ -49,7 +49,7 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 	stems = []string{"ring_gap", "ring_clamp"}
 	around = []post.Plot{gap, clamp}
 	if res.Loads != nil {
-		damage := post.Plot{EqualAxes: true, Title: "Fatigue damage D per bolt, around the ring (radius: D; dashed: D = 1)",
+		damage := post.Plot{EqualAxes: true, Title: "Fatigue damage D per bolt, around the ring (radius: D)",
 			XLabel: "D [–]", YLabel: "D [–]",
 			Series: []post.Series{
 				polar("FE", bs, func(b BoltResult) float64 { return fe(b) }, false),
@@ -61,6 +61,9 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 				}, false),
 			}}
 		if max := maxDamage(bs); max >= 0.5 {
+			// Drawn only where some bolt comes near it: otherwise the
+			// circle would shrink every bolt's damage to a dot.
+			damage.Title = "Fatigue damage D per bolt, around the ring (radius: D; dashed: D = 1)"
 			damage.Series = append(damage.Series, polar("D = 1", bs, func(BoltResult) float64 { return 1 }, true))
 		}
 		stems, around = append(stems, "ring_damage"), append(around, damage)
