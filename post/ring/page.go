@@ -34,14 +34,14 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 	if len(bs) == 0 {
 		return nil, nil, nil
 	}
-	gap := post.Plot{EqualAxes: true, Title: "Gap at the bolt before and after the preload, around the ring (0° at the top, clockwise; radius: gap)",
-		XLabel: "gap [mm]", YLabel: "gap [mm]",
+	gap := post.Plot{EqualAxes: true, Title: "Gap at each bolt, before and after the preload",
+		XLabel: "radius: gap [mm]; 0° at the top, clockwise", YLabel: "gap [mm]",
 		Series: []post.Series{
 			polar("parallel gap before tightening", bs, func(b BoltResult) float64 { return b.Parallel }, true),
 			polar("largest gap left after the preload", bs, func(b BoltResult) float64 { return b.GapLeftMM }, false),
 		}}
-	clamp := post.Plot{EqualAxes: true, Title: "Preload and clamp force left on the faces after closing, around the ring (radius: force)",
-		XLabel: "force [kN]", YLabel: "force [kN]",
+	clamp := post.Plot{EqualAxes: true, Title: "Preload, and clamp force left after closing",
+		XLabel: "radius: force [kN]; 0° at the top, clockwise", YLabel: "force [kN]",
 		Series: []post.Series{
 			polar("preload", bs, func(b BoltResult) float64 { return b.PreloadKN }, true),
 			polar("clamp force after the preload", bs, func(b BoltResult) float64 { return b.ClampKN }, false),
@@ -49,8 +49,8 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 	stems = []string{"ring_gap", "ring_clamp"}
 	around = []post.Plot{gap, clamp}
 	if res.Loads != nil {
-		damage := post.Plot{EqualAxes: true, Title: "Fatigue damage D per bolt, around the ring (radius: D)",
-			XLabel: "D [–]", YLabel: "D [–]",
+		damage := post.Plot{EqualAxes: true, Title: "Fatigue damage D per bolt",
+			XLabel: "radius: D [–]; 0° at the top, clockwise", YLabel: "D [–]",
 			Series: []post.Series{
 				polar("FE", bs, func(b BoltResult) float64 { return fe(b) }, false),
 				polar("trilinear (hand)", bs, func(b BoltResult) float64 {
@@ -63,7 +63,7 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 		if max := maxDamage(bs); max >= 0.5 {
 			// Drawn only where some bolt comes near it: otherwise the
 			// circle would shrink every bolt's damage to a dot.
-			damage.Title = "Fatigue damage D per bolt, around the ring (radius: D; dashed: D = 1)"
+			damage.Title = "Fatigue damage D per bolt (dashed: D = 1)"
 			damage.Series = append(damage.Series, polar("D = 1", bs, func(BoltResult) float64 { return 1 }, true))
 		}
 		stems, around = append(stems, "ring_damage"), append(around, damage)
