@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"flangeseg/fem/segment/modelfile"
+	"flangeseg/post/results"
 )
 
 // coarseModelFile writes demo model i with a coarse mesh and few
@@ -112,5 +113,30 @@ func TestToFailureVariant(t *testing.T) {
 	}
 	if err := s.Validate(); err != nil {
 		t.Error(err)
+	}
+}
+
+// A figure one run did not reach is printed as "not reached", not as 0,
+// and has no ratio; an opening load of 0 (a face open after the preload)
+// is a value.
+func TestCompareTableNotReached(t *testing.T) {
+	zero, open, dec := 0.0, 120.0, 300.0
+	var a, b results.Summary
+	a.Joint.OpeningLoadKN, a.Joint.DecompressionKN = &open, &dec
+	b.Joint.OpeningLoadKN = &zero // decompression not reached
+	var out bytes.Buffer
+	compareTable(&out, []string{"a", "b"}, []results.Summary{a, b})
+	for _, line := range strings.Split(out.String(), "\n") {
+		f := strings.Fields(line)
+		switch {
+		case strings.HasPrefix(line, "decompression load"):
+			if !strings.Contains(line, "not reached") || f[len(f)-1] != "—" {
+				t.Errorf("decompression load not reached by b: %q", line)
+			}
+		case strings.HasPrefix(line, "opening load"):
+			if strings.Contains(line, "not reached") || f[len(f)-2] != "0" {
+				t.Errorf("opening load 0 of b is a value: %q", line)
+			}
+		}
 	}
 }

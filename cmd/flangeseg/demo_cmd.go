@@ -134,13 +134,15 @@ func compareTable(w io.Writer, names []string, sums []results.Summary) {
 	fmt.Fprintln(tw)
 	for _, r := range results.ComparedFigures() {
 		fmt.Fprintf(tw, "%s\t", r.Label)
-		base := r.Value(sums[0])
 		for i, s := range sums {
-			v := r.Value(s)
-			fmt.Fprintf(tw, "%.3g\t", v)
+			if v, ok := r.Get(s); ok {
+				fmt.Fprintf(tw, "%.3g\t", v)
+			} else {
+				fmt.Fprint(tw, "not reached\t")
+			}
 			if i > 0 {
-				if base != 0 {
-					fmt.Fprintf(tw, "%.3f\t", v/base)
+				if q, ok := r.Ratio(s, sums[0]); ok {
+					fmt.Fprintf(tw, "%.3f\t", q)
 				} else {
 					fmt.Fprint(tw, "—\t")
 				}
@@ -154,6 +156,6 @@ func compareTable(w io.Writer, names []string, sums []results.Summary) {
 		fmt.Fprintf(w, "  %s: %s\n", names[i], s.Joint.FailureLocation)
 	}
 	if len(sums) > 0 {
-		fmt.Fprintf(w, "reference load: %.0f kN (%s); 0 means not reached\n", sums[0].Joint.ReferenceLoadKN, sums[0].Joint.ReferenceFrom)
+		fmt.Fprintf(w, "reference load: %.0f kN (%s)\n", sums[0].Joint.ReferenceLoadKN, sums[0].Joint.ReferenceFrom)
 	}
 }

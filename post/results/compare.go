@@ -23,11 +23,15 @@ type ComparedFigure struct {
 	Get func(s Summary) (float64, bool)
 }
 
-// Value is the run's value, 0 when not reached (as the printed table and
-// comparison.csv show it).
-func (f ComparedFigure) Value(s Summary) float64 {
-	v, _ := f.Get(s)
-	return v
+// Ratio is the run's value over the base run's, false where either was
+// not reached or the base is zero.
+func (f ComparedFigure) Ratio(s, base Summary) (float64, bool) {
+	v, ok := f.Get(s)
+	b, okBase := f.Get(base)
+	if !ok || !okBase || b == 0 {
+		return 0, false
+	}
+	return v / b, true
 }
 
 // ComparedFigures are the joint figures of a comparison.
@@ -80,12 +84,16 @@ func WriteComparison(dir string, names, paths, runDirs []string, sums []Summary)
 		for i, s := range sums {
 			row := []string{names[i], paths[i]}
 			for _, f := range figs {
-				v, base := f.Value(s), f.Value(sums[0])
-				ratio := ""
-				if base != 0 {
-					ratio = strconv.FormatFloat(v/base, 'g', 6, 64)
+				// A figure the run did not reach is an empty cell, not 0
+				// (an opening load of 0 is a face open after the preload).
+				value, ratio := "", ""
+				if v, ok := f.Get(s); ok {
+					value = strconv.FormatFloat(v, 'g', 10, 64)
 				}
-				row = append(row, strconv.FormatFloat(v, 'g', 10, 64), ratio)
+				if r, ok := f.Ratio(s, sums[0]); ok {
+					ratio = strconv.FormatFloat(r, 'g', 6, 64)
+				}
+				row = append(row, value, ratio)
 			}
 			row = append(row, s.Joint.FailureLocation)
 			if err := cw.Write(row); err != nil {
