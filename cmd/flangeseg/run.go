@@ -296,6 +296,9 @@ func closingLine(c *figures.Closure) string {
 	if c.ClosingForceKN == nil || c.ClosingShare == nil {
 		return "not found (see the note above)"
 	}
+	if *c.ClosingForceKN == 0 && len(c.ClosingBetweenKN) == 0 && c.GapLeftMM <= figures.OpenGap {
+		return "none: the faces touch within 1 µm before any tightening"
+	}
 	line := fmt.Sprintf("%.1f kN (%.0f %% of the preload)", *c.ClosingForceKN, 100**c.ClosingShare)
 	if b := c.ClosingBetweenKN; len(b) == 2 {
 		line += fmt.Sprintf(", between the free-end tightening levels at %.1f and %.1f kN", b[0], b[1])

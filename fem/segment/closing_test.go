@@ -273,4 +273,13 @@ func TestClosingForceReading(t *testing.T) {
 	if c := closingForce(closingSearch{}, preload, 0.2); !c.open || c.force != preload {
 		t.Errorf("a gap left open: %+v, want the whole preload", c)
 	}
+	// Closed at the unloaded level: nothing to close, said so, with no
+	// levels to bracket it (not "0.0 kN between 0.0 and 0.0 kN").
+	c = closingForce(closingSearch{ran: true, states: []tighteningState{{gap: 0}}}, preload, 0)
+	if c.missing != nil || !c.none || c.force != 0 {
+		t.Errorf("faces touching before any tightening: %+v, want nothing to close", c)
+	}
+	if w := g.closingWords(c, preload); !strings.Contains(w, "no bolt force") || strings.Contains(w, "between its levels") {
+		t.Errorf("faces touching before any tightening: %s", w)
+	}
 }

@@ -50,7 +50,7 @@ func (g *segment) closure(res *analysis) *figures.Closure {
 			share := c.force / preload
 			out.ClosingShare = &share
 		}
-		if !c.open {
+		if !c.open && !c.none {
 			out.ClosingBetweenKN = []float64{c.from / 1e3, c.to / 1e3}
 		}
 	}
@@ -80,6 +80,7 @@ type closing struct {
 	force, from, to float64
 	open            bool  // the preload leaves the gap open: all of it went into closing
 	capped          bool  // the search closed the faces only past the preload reached
+	none            bool  // the faces touched before any tightening: nothing to close
 	missing         error // why no force was found
 }
 
@@ -106,7 +107,7 @@ func closingForce(search closingSearch, preload, gapLeft float64) closing {
 	if n == 1 {
 		// Closed in the unloaded state: nothing to close (a gap smaller
 		// than closedGap).
-		return closing{}
+		return closing{none: true}
 	}
 	a, b := st[n-2], st[n-1]
 	t := (a.gap - closedGap) / (a.gap - b.gap)
@@ -125,6 +126,9 @@ func (g *segment) closingWords(c closing, preload float64) string {
 	}
 	if c.missing != nil {
 		return fmt.Sprintf("the bolt force the closing took was not found: a separate tightening with the shell end free did not give it (%v)", c.missing)
+	}
+	if c.none {
+		return "closing it took no bolt force: with the shell end free the faces touch within 1 µm before any tightening"
 	}
 	w := fmt.Sprintf("closing it took a bolt force of %.1f kN (%.0f %% of the preload), found by a separate tightening of the joint in levels with the shell end free, stopped once the faces closed, and read linearly in the gap between its levels at %.1f and %.1f kN (resolution: one level; the analysis's own preload path is not changed)",
 		c.force/1e3, 100*c.force/preload, c.from/1e3, c.to/1e3)
