@@ -6,7 +6,9 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
+	"syscall"
 
 	"flangeseg/post"
 )
@@ -99,7 +101,11 @@ type Staging struct {
 }
 
 // Stage checks final (CheckOutDir) and creates the temporary directory
-// beside it, named .NAME.writing-*.
+// beside it, named .NAME.writing-HOST-PID-*: the host and process that
+// write it. Staging directories of the same NAME that a process of this
+// host left behind when it was killed outright (a signal it could not
+// catch, a power cut) are removed first; those of live processes and of
+// other hosts (a shared file system on a cluster) are left alone.
 func Stage(final string) (*Staging, error) {
 	if err := CheckOutDir(final); err != nil {
 		return nil, err
@@ -111,7 +117,9 @@ func Stage(final string) (*Staging, error) {
 	if err := os.MkdirAll(parent, 0o755); err != nil {
 		return nil, fmt.Errorf("output directory %s: %w", final, err)
 	}
-	dir, err := os.MkdirTemp(parent, "."+base+".writing-")
+	host := stagingHost()
+	removeOrphans(parent, base, host)
+	dir, err := os.MkdirTemp(parent, fmt.Sprintf(".%s.writing-%s-%d-", base, host, os.Getpid()))
 	if err != nil {
 		return nil, fmt.Errorf("output directory %s: %w", final, err)
 	}
@@ -178,4 +186,53 @@ func WriteStaged(dir, kind string, write func(staged string) error) error {
 		return err
 	}
 	return st.Commit(kind)
+}
+
+// stagingHost is this host's name as a staging directory carries it
+// (no separators, no dashes, so that the name parses back).
+func stagingHost() string {
+	h, err := os.Hostname()
+	if err != nil || h == "" {
+		return "host"
+	}
+	return strings.Map(func(r rune) rune {
+		if r == '-' || r == '/' || r == os.PathSeparator {
+			return '_'
+		}
+		return r
+	}, h)
+}
+
+// removeOrphans removes the staging directories of base in parent whose
+// writer ran on host and is no longer running. Errors are ignored: an
+// orphan that stays is only clutter.
+func removeOrphans(parent, base, host string) {
+	prefix := "." + base + ".writing-" + host + "-"
+	entries, err := os.ReadDir(parent)
+	if err != nil {
+		return
+	}
+	for _, e := range entries {
+		rest, ok := strings.CutPrefix(e.Name(), prefix)
+		if !ok || !e.IsDir() {
+			continue
+		}
+		pidText, _, ok := strings.Cut(rest, "-")
+		pid, err := strconv.Atoi(pidText)
+		if !ok || err != nil || pid <= 0 || processRunning(pid) {
+			continue
+		}
+		os.RemoveAll(filepath.Join(parent, e.Name()))
+	}
+}
+
+// processRunning reports whether a process with this id runs on this
+// host (signal 0 checks without sending anything).
+func processRunning(pid int) bool {
+	p, err := os.FindProcess(pid)
+	if err != nil {
+		return false
+	}
+	err = p.Signal(syscall.Signal(0))
+	return err == nil || errors.Is(err, syscall.EPERM)
 }
