@@ -265,29 +265,11 @@ func (s *Symbolic) newPlan(w int) *plan {
 	bins := make([]float64, w)
 	owner := make([]int, ns)
 	assign := func() float64 {
-		slices.SortFunc(cands, func(a, b int) int {
-			if sub[a] != sub[b] {
-				if sub[a] > sub[b] {
-					return -1
-				}
-				return 1
-			}
-			return a - b
-		})
-		clear(bins)
 		var total float64
 		for _, t := range cands {
-			b := 0
-			for i := range bins {
-				if bins[i] < bins[b] {
-					b = i
-				}
-			}
-			bins[b] += sub[t]
-			owner[t] = b
 			total += sub[t]
 		}
-		return slices.Max(bins) / (total / float64(w))
+		return packLargestFirst(cands, sub, bins, owner) / (total / float64(w))
 	}
 	for len(cands) > 0 && w > 1 {
 		if assign() < 1.05 {
