@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"flangeseg/post/results"
 	"os"
 	"path/filepath"
 	"strings"
@@ -38,7 +39,8 @@ func TestExitCodes(t *testing.T) {
 }
 
 // verify -o and --dump-matrix write one .vtu per solve and a matrix and a
-// right-hand side per solve, and no temporary files.
+// right-hand side per solve, each directory marked as a flangeseg result,
+// and no temporary files.
 func TestVerifyWritesFiles(t *testing.T) {
 	dir := t.TempDir()
 	fields, mats := filepath.Join(dir, "fields"), filepath.Join(dir, "matrices")
@@ -59,13 +61,21 @@ func TestVerifyWritesFiles(t *testing.T) {
 		for _, e := range ents {
 			if strings.HasSuffix(e.Name(), c.suffix) {
 				n++
-			} else if !strings.HasSuffix(e.Name(), ".mtx") {
+			} else if !strings.HasSuffix(e.Name(), ".mtx") && e.Name() != results.MarkerFile {
 				t.Errorf("unexpected file %s", e.Name())
 			}
 		}
 		if n != c.n {
 			t.Errorf("%s: %d files *%s, want %d", c.dir, n, c.suffix, c.n)
 		}
+	}
+	for _, d := range []string{fields, mats} {
+		if _, err := os.Stat(filepath.Join(d, results.MarkerFile)); err != nil {
+			t.Errorf("%s is not marked as a flangeseg result: %v", d, err)
+		}
+	}
+	if left, _ := filepath.Glob(filepath.Join(dir, ".*writing*")); len(left) > 0 {
+		t.Errorf("staging directories left: %v", left)
 	}
 	head, err := os.ReadFile(filepath.Join(mats, "lame_axisymmetric_q8_20_2.matrix.mtx"))
 	if err != nil {
@@ -84,5 +94,36 @@ func TestFileStem(t *testing.T) {
 		if got := fileStem(in); got != want {
 			t.Errorf("fileStem(%q) = %q, want %q", in, got, want)
 		}
+	}
+}
+
+// verify follows the output-directory rule: a directory that holds
+// anything but a flangeseg result is refused (exit 2) and left as it was,
+// and -o and --dump-matrix may not be the same directory.
+func TestVerifyOutputDirectoryRule(t *testing.T) {
+	dir := t.TempDir()
+	foreign := filepath.Join(dir, "mine")
+	if err := os.MkdirAll(foreign, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	keep := filepath.Join(foreign, "notes.txt")
+	if err := os.WriteFile(keep, []byte("mine"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, args := range [][]string{
+		{"verify", "--case", "patch", "-o", foreign},
+		{"verify", "--case", "patch", "--dump-matrix", foreign},
+		{"verify", "--case", "patch", "-o", filepath.Join(dir, "same"), "--dump-matrix", filepath.Join(dir, "same")},
+	} {
+		code, _, errs := runCLI(args...)
+		if code != exitBadInput {
+			t.Errorf("%v: exit %d, want %d\n%s", args, code, exitBadInput, errs)
+		}
+	}
+	if b, err := os.ReadFile(keep); err != nil || string(b) != "mine" {
+		t.Errorf("the foreign directory was touched: %q %v", b, err)
+	}
+	if left, _ := filepath.Glob(filepath.Join(dir, ".*writing*")); len(left) > 0 {
+		t.Errorf("staging directories left: %v", left)
 	}
 }

@@ -4,7 +4,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
 	"text/tabwriter"
@@ -12,6 +11,7 @@ import (
 	"flangeseg/fem/sparse"
 	"flangeseg/fem/verify"
 	"flangeseg/post"
+	"flangeseg/post/results"
 )
 
 func runVerify(args []string, stdout, stderr io.Writer) int {
@@ -44,18 +44,30 @@ Flags:
 		fmt.Fprintf(stderr, "flangeseg verify: --case %q: %v\n", *only, err)
 		return exitBadInput
 	}
-	for _, dir := range []string{*outDir, *dumpDir} {
-		if dir != "" {
-			if err := os.MkdirAll(dir, 0o755); err != nil {
-				fmt.Fprintf(stderr, "flangeseg verify: %v\n", err)
-				return exitBadInput
+	if *outDir != "" && *dumpDir != "" && filepath.Clean(*outDir) == filepath.Clean(*dumpDir) {
+		fmt.Fprintf(stderr, "flangeseg verify: --dump-matrix = %s: must differ from -o (each is a result directory of its own)\n", *dumpDir)
+		return exitBadInput
+	}
+	// Both directories follow the output-directory rule (new, empty or an
+	// earlier flangeseg result) and are written under a temporary name,
+	// put in place whole at the end, whatever the rows say.
+	fields, matrices, code := stageVerify(*outDir, *dumpDir, stderr)
+	if code != exitOK {
+		return code
+	}
+	defer func() {
+		for _, st := range []*results.Staging{fields, matrices} {
+			if st != nil {
+				if err := st.Commit(results.KindVerify); err != nil {
+					fmt.Fprintf(stderr, "flangeseg verify: %v\n", err)
+				}
 			}
 		}
-	}
+	}()
 	opt := verify.Options{}
-	if *dumpDir != "" {
+	if matrices != nil {
 		opt.Inspect = func(name string, k *sparse.Matrix, rhs []float64) error {
-			return dumpSystem(*dumpDir, name, k, rhs)
+			return dumpSystem(matrices.Dir, name, k, rhs)
 		}
 	}
 	var rows []verify.Row
@@ -66,8 +78,8 @@ Flags:
 			return exitAnalysis
 		}
 		rows = append(rows, out.Rows...)
-		if *outDir != "" {
-			if err := writeSnapshots(*outDir, out.Snapshots); err != nil {
+		if fields != nil {
+			if err := writeSnapshots(fields.Dir, out.Snapshots); err != nil {
 				fmt.Fprintf(stderr, "flangeseg verify: case %s: %v\n", c.Name, err)
 				return exitAnalysis
 			}
@@ -173,4 +185,28 @@ func dumpSystem(dir, name string, k *sparse.Matrix, rhs []float64) error {
 		return err
 	}
 	return post.WriteFileAtomic(stem+".rhs.mtx", func(w io.Writer) error { return sparse.WriteVectorMarket(w, rhs) })
+}
+
+// stageVerify stages the directories of -o and --dump-matrix that are
+// given (nil for one that is not); a directory the rule refuses is bad
+// input.
+func stageVerify(outDir, dumpDir string, stderr io.Writer) (fields, matrices *results.Staging, code int) {
+	for _, d := range []struct {
+		dir string
+		st  **results.Staging
+	}{{outDir, &fields}, {dumpDir, &matrices}} {
+		if d.dir == "" {
+			continue
+		}
+		st, err := results.Stage(d.dir)
+		if err != nil {
+			fmt.Fprintf(stderr, "flangeseg verify: %v\n", err)
+			if fields != nil {
+				fields.Discard()
+			}
+			return nil, nil, exitBadInput
+		}
+		*d.st = st
+	}
+	return fields, matrices, exitOK
 }

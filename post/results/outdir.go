@@ -20,12 +20,13 @@ const MarkerFile = "flangeseg_result.txt"
 
 // Kinds of result directory, the first line of the marker file names one.
 const (
-	KindRun        = "run"        // one model's run
-	KindComparison = "comparison" // runs side by side (compare, demo) and their comparison
-	KindFatigue    = "fatigue"    // a bolt fatigue assessment
-	KindMesh       = "mesh"       // a mesh to look at
-	KindSweep      = "sweep"      // a sweep's cases and tables, resumed in place
-	KindRing       = "ring"       // a ring check: its classes run as a sweep, resumed in place, and the per-bolt tables
+	KindRun        = "run"          // one model's run
+	KindComparison = "comparison"   // runs side by side (compare, demo) and their comparison
+	KindFatigue    = "fatigue"      // a bolt fatigue assessment
+	KindMesh       = "mesh"         // a mesh to look at
+	KindSweep      = "sweep"        // a sweep's cases and tables, resumed in place
+	KindRing       = "ring"         // a ring check: its classes run as a sweep, resumed in place, and the per-bolt tables
+	KindVerify     = "verification" // the verification problems' fields or matrices (verify -o, --dump-matrix)
 )
 
 // ErrNotResult is wrapped by the error of an output directory that exists
