@@ -48,17 +48,24 @@ func benchFactorize(b *testing.B, name string, ord Ordering) {
 	benchFactorizeWorkers(b, name, ord, 0)
 }
 
-func benchFactorizeWorkers(b *testing.B, name string, ord Ordering, workers int) {
+// benchFactor analyses and factorizes the benchmark matrix name with
+// ord on workers goroutines (0: all), outside any timing.
+func benchFactor(b *testing.B, name string, ord Ordering, workers int) (*Matrix, *Symbolic, *Cholesky) {
 	m := benchMatrix(b, name)
 	s, err := Analyze(m, ord)
 	if err != nil {
 		b.Fatal(err)
 	}
-	var c Cholesky
+	c := new(Cholesky)
 	c.SetWorkers(workers)
-	if err := c.Factorize(s, m); err != nil { // allocate outside the timing
+	if err := c.Factorize(s, m); err != nil {
 		b.Fatal(err)
 	}
+	return m, s, c
+}
+
+func benchFactorizeWorkers(b *testing.B, name string, ord Ordering, workers int) {
+	m, s, c := benchFactor(b, name, ord, workers) // allocates outside the timing
 	b.ResetTimer()
 	for b.Loop() {
 		if err := c.Factorize(s, m); err != nil {
@@ -67,19 +74,11 @@ func benchFactorizeWorkers(b *testing.B, name string, ord Ordering, workers int)
 	}
 	b.ReportMetric(float64(s.FactorNNZ())/1e6, "Mnnz(L)")
 	b.ReportMetric(s.FactorFlops()*float64(b.N)/b.Elapsed().Seconds()/1e9, "GFlop/s")
-	reportMemory(b, &c)
+	reportMemory(b, c)
 }
 
 func benchSolve(b *testing.B, name string, ord Ordering) {
-	m := benchMatrix(b, name)
-	s, err := Analyze(m, ord)
-	if err != nil {
-		b.Fatal(err)
-	}
-	var c Cholesky
-	if err := c.Factorize(s, m); err != nil {
-		b.Fatal(err)
-	}
+	m, s, c := benchFactor(b, name, ord, 0)
 	rhs := randVec(m.N(), rand.New(rand.NewPCG(3, 4)))
 	x := make([]float64, m.N())
 	b.ResetTimer()
@@ -159,21 +158,13 @@ func BenchmarkSolvePair(b *testing.B) {
 }
 
 func benchSolvePair(b *testing.B, size string, ord Ordering, prec string, workers int, cold bool) {
-	m := benchMatrix(b, size)
-	s, err := Analyze(m, ord)
-	if err != nil {
-		b.Fatal(err)
-	}
-	var c Cholesky
-	if err := c.Factorize(s, m); err != nil {
-		b.Fatal(err)
-	}
+	m, s, c := benchFactor(b, size, ord, 0)
 	c.SetWorkers(workers)
 	solve := c.SolveVecTo
 	if prec == "float32" {
 		var f Cholesky32
 		f.SetWorkers(workers)
-		if err := f.Round(&c); err != nil {
+		if err := f.Round(c); err != nil {
 			b.Fatal(err)
 		}
 		solve = f.SolveVecTo
@@ -204,20 +195,12 @@ func benchSolvePair(b *testing.B, size string, ord Ordering, prec string, worker
 func BenchmarkRound(b *testing.B) {
 	for _, size := range []string{"20k", "200k"} {
 		b.Run(size, func(b *testing.B) {
-			m := benchMatrix(b, size)
-			s, err := Analyze(m, OrderNestedDissection)
-			if err != nil {
-				b.Fatal(err)
-			}
-			var c Cholesky
-			if err := c.Factorize(s, m); err != nil {
-				b.Fatal(err)
-			}
+			_, _, c := benchFactor(b, size, OrderNestedDissection, 0)
 			var f Cholesky32
-			f.Round(&c)
+			f.Round(c)
 			b.ResetTimer()
 			for b.Loop() {
-				f.Round(&c)
+				f.Round(c)
 			}
 		})
 	}

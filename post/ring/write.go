@@ -78,24 +78,16 @@ func (res *Result) WriteCSV(path string) error {
 // WriteSpectrum writes ring_spectrum.csv: every bolt's FE stress range
 // bins that hold cycles.
 func (res *Result) WriteSpectrum(path string) error {
-	return post.WriteFileAtomic(path, func(w io.Writer) error {
-		cw := csv.NewWriter(w)
-		if err := cw.Write([]string{"bolt", "range_from_MPa", "range_to_MPa", "cycles", "damage"}); err != nil {
-			return err
-		}
-		for _, b := range res.Bolts {
-			for _, bin := range b.Spectrum {
-				if bin.Cycles == 0 {
-					continue
-				}
-				if err := cw.Write([]string{strconv.Itoa(b.Number), num(bin.From), num(bin.To), num(bin.Cycles), num(bin.Damage)}); err != nil {
-					return err
-				}
+	t := post.Table{Columns: []string{"bolt", "range_from_MPa", "range_to_MPa", "cycles", "damage"}}
+	for _, b := range res.Bolts {
+		for _, bin := range b.Spectrum {
+			if bin.Cycles == 0 {
+				continue
 			}
+			t.Rows = append(t.Rows, []float64{float64(b.Number), bin.From, bin.To, bin.Cycles, bin.Damage})
 		}
-		cw.Flush()
-		return cw.Error()
-	})
+	}
+	return post.WriteCSV(path, t)
 }
 
 // WriteFunctions writes ring_functions.csv: each class's FE bolt-force
