@@ -1,9 +1,7 @@
 package report
 
 import (
-	"errors"
 	"fmt"
-	"strings"
 
 	"flangeseg/post"
 )
@@ -32,13 +30,7 @@ type Ring struct {
 }
 
 func (r Ring) validate() error {
-	var errs []error
-	if strings.TrimSpace(r.Caution) == "" {
-		errs = append(errs, errors.New("Caution is empty: the page must carry the design-aid caution"))
-	}
-	if strings.TrimSpace(r.Title) == "" {
-		errs = append(errs, errors.New("Title is empty"))
-	}
+	errs := headErrors(r.Title, r.Caution, "page")
 	errs = append(errs, r.Setup.check("Setup")...)
 	errs = append(errs, r.Classes.check("Classes")...)
 	errs = append(errs, r.Bolts.check("Bolts")...)

@@ -1,10 +1,8 @@
 package report
 
 import (
-	"errors"
 	"fmt"
 	"io"
-	"strings"
 
 	"flangeseg/post"
 )
@@ -27,13 +25,7 @@ type Sweep struct {
 }
 
 func (s Sweep) validate() error {
-	var errs []error
-	if strings.TrimSpace(s.Caution) == "" {
-		errs = append(errs, errors.New("Caution is empty: the page must carry the design-aid caution"))
-	}
-	if strings.TrimSpace(s.Title) == "" {
-		errs = append(errs, errors.New("Title is empty"))
-	}
+	errs := headErrors(s.Title, s.Caution, "page")
 	errs = append(errs, s.Setup.check("Setup")...)
 	errs = append(errs, s.Cases.check("Cases")...)
 	errs = append(errs, s.NotDone.check("NotDone")...)

@@ -19,13 +19,7 @@ func (r Report) validate() error {
 }
 
 func (c Compare) validate() error {
-	var errs []error
-	if strings.TrimSpace(c.Caution) == "" {
-		errs = append(errs, errors.New("Caution is empty: the note must carry the design-aid caution"))
-	}
-	if strings.TrimSpace(c.Title) == "" {
-		errs = append(errs, errors.New("Title is empty"))
-	}
+	errs := headErrors(c.Title, c.Caution, "note")
 	if len(c.Runs) == 0 {
 		errs = append(errs, errors.New("Runs is empty: a comparison needs at least one run"))
 	}
@@ -248,3 +242,16 @@ func (j *JointDrawing) check(at string) []error {
 }
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// headErrors checks what every document needs before its body: a title
+// and the design-aid caution (doc names the document in the message).
+func headErrors(title, caution, doc string) []error {
+	var errs []error
+	if strings.TrimSpace(caution) == "" {
+		errs = append(errs, errors.New("Caution is empty: the "+doc+" must carry the design-aid caution"))
+	}
+	if strings.TrimSpace(title) == "" {
+		errs = append(errs, errors.New("Title is empty"))
+	}
+	return errs
+}
