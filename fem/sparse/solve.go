@@ -173,6 +173,12 @@ type factorView[F float32 | float64] struct {
 // solve computes dst = A⁻¹ b through y = L⁻¹ P b and x = Pᵀ L⁻ᵀ y, with the
 // parts of the solve plan on up to workers goroutines. dst may alias b.
 func (v factorView[F]) solve(dst, b []float64, ws *solveSpace, workers int) {
+	_ = v.solveSplit(dst, b, ws, workers, nil) // no inner step, no error
+}
+
+// solveSplit is solve with inner, if not nil, applied to the trailing
+// equations' part of the forward solution before the backward solve.
+func (v factorView[F]) solveSplit(dst, b []float64, ws *solveSpace, workers int, inner func([]float64) error) error {
 	s, sp := v.s, v.s.solve
 	if sp.entries < minParallelSolve {
 		workers = 1
@@ -198,6 +204,11 @@ func (v factorView[F]) solve(dst, b []float64, ws *solveSpace, workers int) {
 		x, B, below := v.forwardSupernode(t, y)
 		subtractRows(y, below, B, x)
 	}
+	if inner != nil {
+		if err := inner(y[s.n-s.trailing : s.n]); err != nil {
+			return err
+		}
+	}
 	for _, t := range slices.Backward(sp.top) {
 		v.backwardSupernode(t, y)
 	}
@@ -211,6 +222,7 @@ func (v factorView[F]) solve(dst, b []float64, ws *solveSpace, workers int) {
 	for _, i := range sp.topCols {
 		dst[s.perm[i]] = y[i]
 	}
+	return nil
 }
 
 // forwardPart gathers b into the columns of part p and eliminates them; the

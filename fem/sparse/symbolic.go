@@ -79,6 +79,8 @@ type Symbolic struct {
 	work     []float64 // estimated cost of each supernode's front
 
 	solve *solvePlan // split of the tree for the triangular solves
+
+	trailing int // equations pivoted last by AnalyzeLast, 0 after Analyze
 }
 
 // Analyze computes the symbolic factorization of m's pattern with the given
@@ -107,6 +109,11 @@ func Analyze(m *Matrix, ord Ordering) (*Symbolic, error) {
 	if err != nil {
 		return nil, err
 	}
+	return analyzePerm(m, ord, perm)
+}
+
+// analyzePerm is Analyze for a given fill-reducing permutation.
+func analyzePerm(m *Matrix, ord Ordering, perm []int) (*Symbolic, error) {
 	if !validPerm(perm, m.n) {
 		return nil, fmt.Errorf("sparse: Analyze: %v ordering is not a permutation (internal error)", ord)
 	}
