@@ -365,3 +365,33 @@ func mulVec(dst, k, x []float64) {
 		dst[r] = v
 	}
 }
+
+// allLinear reports whether every element's response is linear, its
+// stiffness cached.
+func (a *assembler) allLinear() bool {
+	for e := range a.maps {
+		if a.cached(e, len(a.maps[e].dofs)) == nil {
+			return false
+		}
+	}
+	return true
+}
+
+// addLinearTangent adds every element's cached stiffness to k (all must
+// be linear, see allLinear).
+func (a *assembler) addLinearTangent(k *sparse.Matrix) error {
+	for e := range a.maps {
+		em := &a.maps[e]
+		ke := a.cached(e, len(em.dofs))
+		if ke == nil {
+			return fmt.Errorf("fem: element %d is not linear", e)
+		}
+		if em.t != nil {
+			ke = a.transform(em, ke)
+		}
+		if err := k.AddDense(a.eqIdx[e], ke); err != nil {
+			return fmt.Errorf("fem: element %d: %w", e, err)
+		}
+	}
+	return nil
+}

@@ -119,6 +119,14 @@ type Solver struct {
 	// coupled: the Newton steps include the sliding couplings.
 	coupled bool
 	krylov  krylovSpace
+	// cs: the contact equations of a model linear apart from contact,
+	// pivoted last in the factorization (see contactspace.go); nil where
+	// the whole tangent changes.
+	cs *contactSpace
+	// klin: the elements' part of the tangent where there is a contact
+	// space; kFull: k holds the whole tangent of the last assembly.
+	klin  *sparse.Matrix
+	kFull bool
 	// oldFactorFailed: GMRES with an older factor did not converge in
 	// this equilibrium solve, so its steps factorize without trying it.
 	oldFactorFailed bool
@@ -429,6 +437,18 @@ func (s *Solver) retreat(before, du []float64, step float64) {
 // so while points slide the solve is always GMRES, to the relative
 // tolerance tol.
 func (s *Solver) direction(du, r []float64, tol float64) error {
+	if s.cs != nil {
+		return s.contactDirection(du, r, tol)
+	}
+	return s.plainDirection(du, r, tol)
+}
+
+// plainDirection is direction with the whole tangent: an old factor
+// preconditions GMRES on it.
+func (s *Solver) plainDirection(du, r []float64, tol float64) error {
+	if err := s.wholeTangent(); err != nil {
+		return err
+	}
 	couplings := len(s.couplings) > 0 && s.coupled
 	if s.factorOK && !s.factorStale && !couplings {
 		return s.chol.SolveVecTo(du, r)
@@ -447,17 +467,9 @@ func (s *Solver) direction(du, r []float64, tol float64) error {
 		// factorize directly.
 		s.oldFactorFailed = true
 	}
-	start := time.Now()
-	err := s.chol.Factorize(s.sym, s.k)
-	s.preOK = false
-	s.Timing.Factorization += time.Since(start)
-	s.Timing.Solve -= time.Since(start)
-	if err != nil {
-		s.factorOK = false
-		return s.unstable(s.m.factorError(err))
+	if err := s.factorize(); err != nil {
+		return err
 	}
-	s.Timing.Factorizations++
-	s.factorOK, s.factorStale = true, false
 	if !couplings {
 		return s.chol.SolveVecTo(du, r)
 	}

@@ -3,6 +3,7 @@ package fem
 // Forces and results read off the current state.
 
 import (
+	"errors"
 	"fmt"
 	"slices"
 )
@@ -89,6 +90,31 @@ func (s *Solver) Points() ([][]PointResult, error) {
 		return nil, err
 	}
 	return pts, nil
+}
+
+// Displacements returns the current state as a Solution without point
+// results; EvaluatePoints adds them later, for a model whose points keep
+// no history.
+func (s *Solver) Displacements() *Solution {
+	return &Solution{model: s.m, U: slices.Clone(s.u), Equations: s.m.nEq, FactorNonzeros: s.sym.FactorNNZ()}
+}
+
+// EvaluatePoints computes the integration point results of a Solution
+// made by Displacements, from its displacements. The points of a model
+// with path-dependent laws depend on more than the displacements: there
+// it is an error (take a Snapshot when the state is reached).
+func (sol *Solution) EvaluatePoints() error {
+	m := sol.model
+	if m.HasHistory() {
+		return errors.New("fem: point results of a path-dependent model need a snapshot of the state")
+	}
+	pts := m.newPointResults()
+	fint := make([]float64, m.nDof)
+	if err := newAssembler(m).assemble(sol.U, fint, nil, pts); err != nil {
+		return err
+	}
+	sol.Points = pts
+	return nil
 }
 
 // Snapshot returns the current state as a Solution (for stresses and

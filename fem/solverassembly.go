@@ -40,7 +40,8 @@ func (s *Solver) ensurePattern() error {
 			}
 			s.seen[key] = true
 			s.groups = append(s.groups, g)
-			fresh = true
+			// The contact equations are coupled densely already.
+			fresh = fresh || s.cs == nil || !s.cs.covers(g)
 		}
 	}
 	if !fresh {
@@ -66,21 +67,32 @@ func (s *Solver) equations(dofs []int) []int {
 
 func (s *Solver) rebuild() error {
 	start := time.Now()
-	k, err := sparse.NewPattern(s.m.nEq, s.groups)
-	if err != nil {
-		return fmt.Errorf("fem: sparsity pattern: %w", err)
-	}
 	// Nested dissection costs more to compute but halves the work of each
 	// factorization on large meshes; a Newton run factors many times.
 	ord := sparse.OrderAMD
 	if s.m.nEq > 50000 {
 		ord = sparse.OrderNestedDissection
 	}
-	sym, err := sparse.Analyze(k, ord)
+	k, sym, cs, err := s.analyseContactSpace(ord)
 	if err != nil {
-		return fmt.Errorf("fem: ordering: %w", err)
+		return err
 	}
-	s.k, s.sym = k, sym
+	if cs == nil {
+		if k, err = sparse.NewPattern(s.m.nEq, s.groups); err != nil {
+			return fmt.Errorf("fem: sparsity pattern: %w", err)
+		}
+		if sym, err = sparse.Analyze(k, ord); err != nil {
+			return fmt.Errorf("fem: ordering: %w", err)
+		}
+	}
+	s.k, s.sym, s.cs, s.klin = k, sym, cs, nil
+	if cs != nil {
+		if err := s.a.addLinearTangent(k); err != nil {
+			return err
+		}
+		s.klin = k.Copy()
+	}
+	s.kFull = false
 	s.factorOK = false
 	s.Timing.Analysis += time.Since(start)
 	s.Timing.Analyses++
@@ -90,8 +102,12 @@ func (s *Solver) rebuild() error {
 // assemble computes internal and contact forces and, if tangent, the
 // tangent at s.u.
 func (s *Solver) assemble(tangent bool) error {
+	// With a contact space the elements' part of the tangent is constant
+	// (klin): a tangent assembly collects only the contact stiffness, and
+	// the whole tangent is put together when it is needed (wholeTangent).
+	lazy := tangent && s.cs != nil && s.a.dup == nil && s.opt.Inspect == nil
 	var k *sparse.Matrix
-	if tangent {
+	if tangent && !lazy {
 		k = s.k
 	}
 	start := time.Now()
@@ -104,10 +120,14 @@ func (s *Solver) assemble(tangent bool) error {
 	if tangent {
 		s.couplings = s.couplings[:0]
 		s.factorStale = true
+		s.kFull = !lazy
+		if s.cs != nil {
+			clear(s.cs.kc)
+		}
 	}
 	for _, p := range s.pairs {
 		err := p.Evaluate(s.cur, tangent, func(dofs []int, f, kc []float64) error {
-			return s.addContact(dofs, f, kc, k)
+			return s.addContact(dofs, f, kc, k, tangent)
 		})
 		if err != nil {
 			return fmt.Errorf("fem: contact %q: %w", p.Name(), err)
@@ -132,17 +152,40 @@ func (s *Solver) forces() error {
 	return s.assemble(false)
 }
 
-func (s *Solver) addContact(dofs []int, f, kc []float64, k *sparse.Matrix) error {
+func (s *Solver) addContact(dofs []int, f, kc []float64, k *sparse.Matrix, tangent bool) error {
 	for i, d := range dofs {
 		s.fint[d] += f[i]
 	}
-	if k == nil || kc == nil {
+	if !tangent || kc == nil {
 		return nil
 	}
 	if s.a.dup != nil {
 		addProduct(s.a.kdup, s.a.dup, dofs, kc)
 	}
-	return k.AddDense(s.toEquations(dofs, kc))
+	idx, ke := s.toEquations(dofs, kc)
+	if s.cs != nil {
+		s.cs.add(idx, ke)
+	}
+	if k == nil {
+		return nil
+	}
+	return k.AddDense(idx, ke)
+}
+
+// wholeTangent makes k hold the whole current tangent where the last
+// assembly left it to the contact space (see assemble).
+func (s *Solver) wholeTangent() error {
+	if s.kFull || s.cs == nil {
+		return nil
+	}
+	if err := s.k.CopyValues(s.klin); err != nil {
+		return err
+	}
+	if err := s.k.AddDense(s.cs.eqs, s.cs.kc); err != nil {
+		return fmt.Errorf("fem: contact stiffness: %w", err)
+	}
+	s.kFull = true
+	return nil
 }
 
 // toEquations maps a dense block over node dofs to the equations, folding

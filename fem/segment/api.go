@@ -114,8 +114,13 @@ type Result struct {
 
 // State is a converged state kept for field output.
 type State struct {
-	Label    string // "preload", "increment 7" …
-	Row      figures.Row
+	Label string // "preload", "increment 7" …
+	Row   figures.Row
+	// Solution holds the displacements and, for the states that get a
+	// field file (Result.FieldStates) and for every state of a model with
+	// path-dependent laws, the integration point results; a state of an
+	// elastic model that gets none has nil Points (Solution.EvaluatePoints
+	// computes them).
 	Solution *fem.Solution
 	// Contacts are the node results of the contact pairs "faces",
 	// "head" and "nut".
@@ -189,6 +194,9 @@ func (s *Segment) Run(ctx context.Context, opt Options) (*Result, error) {
 	for _, st := range a.states {
 		r.States = append(r.States, State{Label: st.label, Row: st.row, Solution: st.solution, Contacts: st.contacts,
 			Plastic: st.history.plastic, Damage: st.history.damage})
+	}
+	if err := r.EvaluateFieldPoints(); err != nil {
+		return nil, err
 	}
 	return r, nil
 }

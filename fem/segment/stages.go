@@ -423,6 +423,12 @@ func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *figur
 	if !keep && !history {
 		return nil
 	}
+	if !history {
+		// Without history the points follow from the displacements: they
+		// are evaluated at the end for the states that get a field file
+		// (deferPoints), not for every increment.
+		return g.keepState(s, res, label, *row, s.Displacements(), pointScalars{})
+	}
 	sol, err := s.Snapshot()
 	if err != nil {
 		return err
@@ -448,7 +454,7 @@ func (g *segment) observe(s *fem.Solver, res *analysis, label string, row *figur
 // Cauchy stress under large deformation), yielding scalars and contact.
 func (g *segment) keepState(s *fem.Solver, res *analysis, label string, row figures.Row, sol *fem.Solution, scalars pointScalars) error {
 	var err error
-	if g.spec.Analysis.LargeDeformation {
+	if g.spec.Analysis.LargeDeformation && sol.Points != nil {
 		if sol.Points, err = sol.CauchyPoints(); err != nil {
 			return err
 		}

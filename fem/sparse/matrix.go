@@ -252,6 +252,16 @@ func (m *Matrix) Copy() *Matrix {
 	}
 }
 
+// CopyValues sets m's values to src's; the two must share one pattern
+// (src a Copy of m, or built from the same groups).
+func (m *Matrix) CopyValues(src *Matrix) error {
+	if !m.samePattern(src) {
+		return fmt.Errorf("sparse: CopyValues: %w", errPattern)
+	}
+	copy(m.val, src.val)
+	return nil
+}
+
 // Diagonal copies the diagonal of m into dst, which must have length n
 // (otherwise nothing is copied).
 func (m *Matrix) Diagonal(dst []float64) {

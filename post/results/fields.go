@@ -6,7 +6,6 @@ import (
 
 	"flangeseg/contact"
 	"flangeseg/fem/segment"
-	"flangeseg/fem/segment/figures"
 	"flangeseg/post"
 )
 
@@ -14,6 +13,9 @@ import (
 // chooses, named after its increment, and the fields.pvd series of them.
 func writeFields(dir string, r *segment.Result) error {
 	var series []post.SeriesEntry
+	if err := r.EvaluateFieldPoints(); err != nil {
+		return err
+	}
 	for _, st := range FieldStates(r) {
 		name := fmt.Sprintf("state_%03d.vtu", st.Row.Increment)
 		if err := writeState(filepath.Join(dir, "fields", name), st); err != nil {
@@ -38,34 +40,9 @@ func writeState(path string, st segment.State) error {
 	return post.WriteVTU(path, post.GridFromMesh(m), point, cell)
 }
 
-// FieldStates are the kept states of a run that get a field file, in
-// order, as the model's output.field_states chooses: all; the key states
-// (figures.KeyRows: the end of the preload, the opening, the
-// decompression, the peak, the last state); or the end of the preload,
-// every N-th increment and the last state.
-func FieldStates(r *segment.Result) []segment.State {
-	choice := r.Segment.Spec().Output.FieldChoice()
-	if choice.All || len(r.States) == 0 {
-		return r.States
-	}
-	chosen := map[int]bool{r.States[0].Row.Increment: true, r.States[len(r.States)-1].Row.Increment: true}
-	if choice.Every > 0 {
-		for _, st := range r.States {
-			chosen[st.Row.Increment] = chosen[st.Row.Increment] || st.Row.Increment%choice.Every == 0
-		}
-	} else {
-		for _, i := range figures.KeyRows(r.History) {
-			chosen[r.History[i].Increment] = true
-		}
-	}
-	var out []segment.State
-	for _, st := range r.States {
-		if chosen[st.Row.Increment] {
-			out = append(out, st)
-		}
-	}
-	return out
-}
+// FieldStates are the kept states of a run that get a field file
+// (segment.Result.FieldStates).
+func FieldStates(r *segment.Result) []segment.State { return r.FieldStates() }
 
 // historyFields are the cell means of equivalent plastic strain and damage
 // indicator over each element's integration points (zero where elastic).

@@ -1,0 +1,358 @@
+package fem
+
+// The Newton equations of a model that is linear apart from contact.
+//
+// Where every element is linear (elastic law, small strain), the tangent
+// changes from one iteration to the next only in the rows and columns of
+// the equations that contact couples, C. The factorization is then made
+// with C pivoted last (sparse.AnalyzeLast): its trailing block L_CC is the
+// Cholesky factor of the Schur complement S₀ of the factorized tangent on
+// C (Golub & Van Loan, Matrix Computations, 4th ed., §3.2.10). A later
+// tangent K = K₀ + Eᵀ·Δ·E, Δ the change of the contact stiffness plus the
+// sliding-friction couplings, is solved exactly with the old factor: the
+// forward solve reduces the right-hand side onto C, GMRES solves
+// (S₀ + Δ)·x_C = L_CC·y_C there, preconditioned by S₀⁻¹ (two dense
+// triangular solves), and the backward solve recovers the rest. A step of
+// that GMRES costs some hundred thousand multiply-adds instead of a sparse
+// triangular solve pair and a product with the whole tangent, so an old
+// factor serves through many contact changes, and a solve costs one pair
+// of sparse triangular solves. Plasticity or large deformation change the
+// whole tangent; their models keep the plain path (direction).
+
+import (
+	"errors"
+	"flangeseg/fem/sparse"
+	"fmt"
+	"slices"
+	"time"
+
+	"gonum.org/v1/gonum/floats"
+)
+
+// maxContactEquations bounds the contact equations of the contact-space
+// solve: its dense blocks take 3·n² values (54 MB at the bound).
+const maxContactEquations = 1500
+
+// GMRES steps on the contact equations allowed with an old factor before a
+// new one is made, and the count above which the next solve refactorizes.
+// A step costs about a hundredth of a factorization of the demo joint.
+const (
+	contactSteps      = 60
+	contactStepsFresh = 20
+)
+
+// contactTolerance is the relative residual the contact equations are
+// solved to, whatever the Newton forcing term would allow: a step costs
+// little here, and an exact direction does not depend on how old the
+// factor is, so the Newton path does not depend on when it was made.
+// (Solved only to the forcing term, as the whole tangent is, the coarse
+// tapered joint of TestPreloadUnchanged needed 38 preload solves instead
+// of 16.)
+const contactTolerance = 1e-10
+
+// contactSpace holds the contact equations and the dense blocks over them.
+type contactSpace struct {
+	eqs []int // contact equations, ascending: the factor's trailing pivots
+	at  []int // equation → place in eqs, −1 for the others
+	// l: L_CC of the factorization in use (n×n row-major lower); kc: the
+	// contact stiffness over C×C of the last tangent assembly, kc0 that of
+	// the factorization in use (n×n row-major, full).
+	l, kc, kc0 []float64
+	// change: kc − kc0 by rows (compressed), and the sliding couplings
+	// mapped to places in eqs, for the products of one solve.
+	dPtr      []int
+	dCol      []int32
+	dVal      []float64
+	couplings []coupling
+	krylov    krylovSpace
+	rhs, x, t []float64
+	// lastIn, lastOut: the last vector preconditioned and its result.
+	lastIn, lastOut []float64
+	// outside: a contact stiffness reached beyond the contact equations
+	// (none should), so the solves take the whole tangent.
+	outside bool
+}
+
+var errContactSpaceStale = errors.New("fem: the old factor no longer serves the contact equations")
+
+func newContactSpace(nEq int, eqs []int) *contactSpace {
+	n := len(eqs)
+	cs := &contactSpace{eqs: eqs, at: make([]int, nEq),
+		l: make([]float64, n*n), kc: make([]float64, n*n), kc0: make([]float64, n*n),
+		rhs: make([]float64, n), x: make([]float64, n), t: make([]float64, n)}
+	for i := range cs.at {
+		cs.at[i] = -1
+	}
+	for i, q := range eqs {
+		cs.at[q] = i
+	}
+	return cs
+}
+
+// contactEquations returns the equations that the contact groups couple,
+// ascending.
+func (s *Solver) contactEquations() []int {
+	var eqs []int
+	for _, g := range s.groups[len(s.a.eqIdx):] {
+		for _, q := range g {
+			if q >= 0 {
+				eqs = append(eqs, q)
+			}
+		}
+	}
+	slices.Sort(eqs)
+	return slices.Compact(eqs)
+}
+
+// covers reports whether every equation of g is a contact equation.
+func (cs *contactSpace) covers(g []int) bool {
+	for _, q := range g {
+		if q >= 0 && cs.at[q] < 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// add adds a contact stiffness block over equations (−1: none) to kc.
+func (cs *contactSpace) add(idx []int, k []float64) {
+	n, nb := len(cs.eqs), len(idx)
+	for i, qi := range idx {
+		if qi < 0 {
+			continue
+		}
+		if cs.at[qi] < 0 {
+			cs.outside = true
+			continue
+		}
+		row := cs.at[qi] * n
+		for j, qj := range idx {
+			if qj < 0 {
+				continue
+			}
+			if cs.at[qj] < 0 {
+				cs.outside = true
+				continue
+			}
+			cs.kc[row+cs.at[qj]] += k[i*nb+j]
+		}
+	}
+}
+
+// prepare collects the change of the tangent since the factorization, and
+// the couplings if any, and reports whether there is one. It is false if a
+// coupling reaches beyond the contact equations.
+func (cs *contactSpace) prepare(couplings []coupling) (changed, ok bool) {
+	n := len(cs.eqs)
+	cs.dPtr, cs.dCol, cs.dVal = append(cs.dPtr[:0], 0), cs.dCol[:0], cs.dVal[:0]
+	for i := range n {
+		row, row0 := cs.kc[i*n:(i+1)*n], cs.kc0[i*n:(i+1)*n]
+		for j, v := range row {
+			if d := v - row0[j]; d != 0 {
+				cs.dCol = append(cs.dCol, int32(j))
+				cs.dVal = append(cs.dVal, d)
+			}
+		}
+		cs.dPtr = append(cs.dPtr, len(cs.dCol))
+	}
+	cs.couplings = cs.couplings[:0]
+	for _, c := range couplings {
+		places := make([]int, len(c.eqs))
+		for i, q := range c.eqs {
+			places[i] = -1
+			if q >= 0 {
+				if places[i] = cs.at[q]; places[i] < 0 {
+					return false, false
+				}
+			}
+		}
+		cs.couplings = append(cs.couplings, coupling{eqs: places, k: c.k})
+	}
+	return len(cs.dVal) > 0 || len(cs.couplings) > 0, true
+}
+
+// mul is dst = (S₀ + Δ)·v with S₀ = L_CC·L_CCᵀ. Where v is the last
+// preconditioned vector, v = S₀⁻¹·w, S₀·v is w itself: GMRES multiplies
+// each preconditioned vector right after making it, so a step costs one
+// pair of dense triangular solves, not two pairs.
+func (cs *contactSpace) mul(dst, v []float64) error {
+	n := len(cs.eqs)
+	if len(v) > 0 && len(cs.lastOut) > 0 && &v[0] == &cs.lastOut[0] {
+		copy(dst, cs.lastIn)
+	} else {
+		lowerTransMulVec(cs.t, cs.l, n, v)
+		lowerMulVec(dst, cs.l, n, cs.t)
+	}
+	for i := range n {
+		s := 0.0
+		for p := cs.dPtr[i]; p < cs.dPtr[i+1]; p++ {
+			s += cs.dVal[p] * v[cs.dCol[p]]
+		}
+		dst[i] += s
+	}
+	for _, c := range cs.couplings {
+		nb := len(c.eqs)
+		for i, pi := range c.eqs {
+			if pi < 0 {
+				continue
+			}
+			s := 0.0
+			for j, pj := range c.eqs {
+				if pj >= 0 {
+					s += c.k[i*nb+j] * v[pj]
+				}
+			}
+			dst[pi] += s
+		}
+	}
+	return nil
+}
+
+// precond is dst = S₀⁻¹·v; it keeps v (see mul).
+func (cs *contactSpace) precond(dst, v []float64) error {
+	n := len(cs.eqs)
+	cs.lastIn = append(cs.lastIn[:0], v...)
+	cs.lastOut = dst
+	copy(dst, v)
+	lowerSolve(cs.l, n, dst)
+	lowerTransSolve(cs.l, n, dst)
+	return nil
+}
+
+// solveInner replaces the forward solution's contact part y_C by
+// L_CCᵀ·x_C, x_C solving (S₀ + Δ)·x_C = L_CC·y_C to the relative
+// tolerance tol in at most maxSteps GMRES steps; it returns the steps
+// and errContactSpaceStale if they did not reach tol.
+func (cs *contactSpace) solveInner(yc []float64, tol float64, maxSteps int, accept bool) (int, error) {
+	n := len(cs.eqs)
+	lowerMulVec(cs.rhs, cs.l, n, yc)
+	cs.lastOut = nil
+	steps, rel, err := cs.krylov.gmres(cs.mul, cs.precond, cs.rhs, cs.x, tol, maxSteps, maxSteps)
+	if err != nil {
+		return steps, err
+	}
+	if rel > tol && !accept {
+		return steps, errContactSpaceStale
+	}
+	lowerTransMulVec(yc, cs.l, n, cs.x)
+	return steps, nil
+}
+
+// contactDirection is direction for a solver with a contact space.
+func (s *Solver) contactDirection(du, r []float64, tol float64) error {
+	cs := s.cs
+	var couplings []coupling
+	if s.coupled {
+		couplings = s.couplings
+	}
+	for attempt := 0; ; attempt++ {
+		if !s.factorOK {
+			if err := s.factorize(); err != nil {
+				return err
+			}
+		}
+		changed, ok := cs.prepare(couplings)
+		if !ok || cs.outside {
+			return s.plainDirection(du, r, tol)
+		}
+		if !changed {
+			return s.chol.SolveVecTo(du, r)
+		}
+		fresh := !s.factorStale || attempt > 0
+		var steps int
+		err := s.chol.SolveVecSplitTo(du, r, func(yc []float64) error {
+			var err error
+			steps, err = cs.solveInner(yc, contactTolerance, contactSteps, fresh)
+			return err
+		})
+		s.Timing.KrylovSteps += steps
+		if errors.Is(err, errContactSpaceStale) {
+			s.factorOK = false
+			continue
+		}
+		if err == nil && steps > contactStepsFresh {
+			s.factorOK = false // cheaper to factorize next time
+		}
+		return err
+	}
+}
+
+// factorize factorizes the current tangent (and, with a contact space,
+// keeps its trailing block and contact stiffness).
+func (s *Solver) factorize() error {
+	if err := s.wholeTangent(); err != nil {
+		return err
+	}
+	start := time.Now()
+	err := s.chol.Factorize(s.sym, s.k)
+	s.preOK = false
+	s.Timing.Factorization += time.Since(start)
+	s.Timing.Solve -= time.Since(start)
+	if err != nil {
+		s.factorOK = false
+		return s.unstable(s.m.factorError(err))
+	}
+	s.Timing.Factorizations++
+	s.factorOK, s.factorStale = true, false
+	if s.cs != nil {
+		if err := s.chol.TrailingFactor(s.cs.l); err != nil {
+			return err
+		}
+		copy(s.cs.kc0, s.cs.kc)
+	}
+	return nil
+}
+
+// analyseContactSpace builds the pattern and its analysis with the contact
+// equations pivoted last, where the model is linear apart from contact and
+// they are not too many; it returns a nil contact space otherwise.
+func (s *Solver) analyseContactSpace(ord sparse.Ordering) (*sparse.Matrix, *sparse.Symbolic, *contactSpace, error) {
+	eqs := s.contactEquations()
+	if len(eqs) == 0 || len(eqs) > maxContactEquations || !s.a.allLinear() {
+		return nil, nil, nil, nil
+	}
+	groups := append(slices.Clip(s.groups), eqs)
+	k, err := sparse.NewPattern(s.m.nEq, groups)
+	if err != nil {
+		return nil, nil, nil, fmt.Errorf("fem: sparsity pattern: %w", err)
+	}
+	sym, err := sparse.AnalyzeLast(k, ord, eqs)
+	if err != nil {
+		return nil, nil, nil, fmt.Errorf("fem: ordering: %w", err)
+	}
+	return k, sym, newContactSpace(s.m.nEq, eqs), nil
+}
+
+// Dense kernels on a lower triangle l, n×n row-major. Rows are walked as
+// dot products or combined as axpys, the forms gonum's floats package
+// runs in assembly.
+
+// lowerMulVec is dst = l·x (dst and x distinct).
+func lowerMulVec(dst, l []float64, n int, x []float64) {
+	for i := range n {
+		dst[i] = floats.Dot(l[i*n:i*n+i+1], x[:i+1])
+	}
+}
+
+// lowerTransMulVec is dst = lᵀ·x (dst and x distinct).
+func lowerTransMulVec(dst, l []float64, n int, x []float64) {
+	clear(dst[:n])
+	for i := range n {
+		floats.AddScaled(dst[:i+1], x[i], l[i*n:i*n+i+1])
+	}
+}
+
+// lowerSolve overwrites x with l⁻¹·x.
+func lowerSolve(l []float64, n int, x []float64) {
+	for i := range n {
+		x[i] = (x[i] - floats.Dot(l[i*n:i*n+i], x[:i])) / l[i*n+i]
+	}
+}
+
+// lowerTransSolve overwrites x with l⁻ᵀ·x.
+func lowerTransSolve(l []float64, n int, x []float64) {
+	for i := n - 1; i >= 0; i-- {
+		x[i] /= l[i*n+i]
+		floats.AddScaled(x[:i], -x[i], l[i*n:i*n+i])
+	}
+}
