@@ -47,6 +47,18 @@ type J2 struct {
 	elastic   Elastic
 	hardening Hardening
 	damage    DuctileDamage
+	moduli    j2Moduli
+}
+
+// j2Moduli are the elastic constants the returns use at every point,
+// found once (four divisions a point otherwise, at the head of the chain
+// of dependent operations a point's return is).
+type j2Moduli struct {
+	shear   float64 // G = E/(2(1+ν))
+	bulk    float64 // K = E/(3(1−2ν))
+	biaxial float64 // E/(1−ν), the modulus of the equal-biaxial plane-stress mode
+	rateA   float64 // E/(3(1−ν)), its rate in the plane-stress return
+	nuOverE float64 // ν/E
 }
 
 // NewJ2 validates the parts of a J2 law. The damage indicator may be the
@@ -63,7 +75,14 @@ func NewJ2(el Elastic, h Hardening, d DuctileDamage) (J2, error) {
 			return J2{}, fmt.Errorf("material: J2 law: %w", err)
 		}
 	}
-	return J2{elastic: el, hardening: h, damage: d}, nil
+	mod := j2Moduli{
+		shear:   el.ShearModulus(),
+		bulk:    el.E / (3 * (1 - 2*el.Nu)),
+		biaxial: el.E / (1 - el.Nu),
+		rateA:   el.E / (1 - el.Nu) / 3,
+		nuOverE: el.Nu / el.E,
+	}
+	return J2{elastic: el, hardening: h, damage: d, moduli: mod}, nil
 }
 
 // Elasticity is the elastic part of the law.
@@ -153,8 +172,7 @@ func (m J2) Respond(c Condition, strain Vec4, committed, trial []float64) (Vec4,
 // strain the caller imposes (0 in plane strain, the hoop strain in
 // axisymmetry).
 func (m J2) respond3D(strain Vec4, old, next *[j2StateSize]float64) (Vec4, Mat4) {
-	g := m.elastic.ShearModulus()
-	k := m.elastic.E / (3 * (1 - 2*m.elastic.Nu))
+	g, k := m.moduli.shear, m.moduli.bulk
 	var e Vec4 // elastic trial strain
 	for i := range e {
 		e[i] = strain[i] - old[StatePlasticStrain+i]
@@ -236,13 +254,11 @@ func (md *planeStressModes) inverseQ(x float64) (g, dg float64) {
 // σ(Δγ) = Ξ(Δγ)·(ε − ε^p_n), Ξ = (C⁻¹ + Δγ P)⁻¹, and Δγ solves
 // q(Δγ) = σ_y(ε̄_n + (2/3)Δγ q(Δγ)).
 func (m J2) respondPlaneStress(strain Vec4, old, next *[j2StateSize]float64) (Vec4, Mat4, error) {
-	el := m.elastic
-	g := el.ShearModulus()
-	eA := el.E / (1 - el.Nu) // modulus of the equal-biaxial mode
+	g, eA := m.moduli.shear, m.moduli.biaxial
 	exx := strain[0] - old[StatePlasticStrain]
 	ezz := strain[1] - old[StatePlasticStrain+1]
 	gxz := strain[3] - old[StatePlasticStrain+3]
-	md := newPlaneStressModes(eA*(exx+ezz), 2*g*(ezz-exx), g*gxz, eA/3, 2*g)
+	md := newPlaneStressModes(eA*(exx+ezz), 2*g*(ezz-exx), g*gxz, m.moduli.rateA, 2*g)
 	ep0 := old[StateEquivalentPlasticStrain]
 	seg := m.hardening.segment(ep0)
 	sy0 := m.hardening.onSegment(seg, ep0)
@@ -252,7 +268,7 @@ func (m J2) respondPlaneStress(strain Vec4, old, next *[j2StateSize]float64) (Ve
 		s := Vec4{(a - b) / 2, (a + b) / 2, 0, t}
 		d[0][0], d[0][1], d[1][0], d[1][1] = (eA+2*g)/2, (eA-2*g)/2, (eA-2*g)/2, (eA+2*g)/2
 		d[3][3] = g
-		next[StateOutOfPlaneStrain] = -el.Nu/el.E*(s[0]+s[1]) + old[StatePlasticStrain+2]
+		next[StateOutOfPlaneStrain] = -m.moduli.nuOverE*(s[0]+s[1]) + old[StatePlasticStrain+2]
 		return s, d, nil
 	}
 	dg, seg, err := m.planeStressConsistency(&md, ep0, seg)
@@ -277,7 +293,7 @@ func (m J2) respondPlaneStress(strain Vec4, old, next *[j2StateSize]float64) (Ve
 	next[StatePlasticStrain+2] -= dg * (n0 + n1) // plastic incompressibility
 	next[StatePlasticStrain+3] += dg * n3
 	next[StateEquivalentPlasticStrain] = ep0 + 2*dg*q/3
-	next[StateOutOfPlaneStrain] = -el.Nu/el.E*(s[0]+s[1]) + next[StatePlasticStrain+2]
+	next[StateOutOfPlaneStrain] = -m.moduli.nuOverE*(s[0]+s[1]) + next[StatePlasticStrain+2]
 
 	// Consistent tangent D = Ξ − c·(Ξn)(Ξn)ᵀ/(c·nᵀΞn + (4/9)H q²), with
 	// c = 1 − (2/3)HΔγ: linearise σ = Ξ(ε − ε^p_n) and q = σ_y(ε̄) with
