@@ -3,7 +3,6 @@ package material
 import (
 	"fmt"
 	"math"
-	"sort"
 )
 
 // Hardening is isotropic multilinear hardening: the true yield stress σ_y as
@@ -79,15 +78,25 @@ func (h Hardening) InitialYield() float64 { return h.stress[0] }
 
 // segment returns the index i of the segment that holds ε̄_p = ep: the
 // point at or below ep; at a point the segment to its right is taken.
+// A binary search written out (sort.SearchFloat64s calls a closure per
+// probe, and a return mapping asks at every point).
 func (h Hardening) segment(ep float64) int {
-	i := sort.SearchFloat64s(h.strain, ep) // first index with strain >= ep
-	if i == len(h.strain) || h.strain[i] > ep {
-		i--
+	lo, hi := 0, len(h.strain) // strain[lo] <= ep < strain[hi], hi = n meaning +∞
+	for hi-lo > 1 {
+		mid := int(uint(lo+hi) >> 1)
+		if h.strain[mid] <= ep {
+			lo = mid
+		} else {
+			hi = mid
+		}
 	}
-	if i < 0 {
-		i = 0
-	}
-	return i
+	return lo
+}
+
+// onSegment is the yield stress on the line of segment i at ε̄_p = ep
+// (the table's value if ep lies on the segment).
+func (h Hardening) onSegment(i int, ep float64) float64 {
+	return h.stress[i] + h.slope(i)*(ep-h.strain[i])
 }
 
 // slope is the hardening modulus of segment i; the last segment continues
@@ -104,8 +113,7 @@ func (h Hardening) slope(i int) float64 {
 // dσ_y/dε̄_p there (the right-hand slope at a point of the table).
 func (h Hardening) Yield(ep float64) (sy, slope float64) {
 	i := h.segment(ep)
-	k := h.slope(i)
-	return h.stress[i] + k*(ep-h.strain[i]), k
+	return h.onSegment(i, ep), h.slope(i)
 }
 
 // radialReturn solves the von Mises consistency condition of the radial

@@ -3,6 +3,8 @@ package material
 import (
 	"fmt"
 	"math"
+	"math/rand"
+	"sort"
 	"testing"
 )
 
@@ -267,5 +269,108 @@ func TestNewJ2Rejects(t *testing.T) {
 	}
 	if _, err := NewJ2(Elastic{E: testE, Nu: 0.3}, h, DuctileDamage{Alpha: -1, Beta: 1.5}); err == nil {
 		t.Error("negative damage alpha accepted")
+	}
+}
+
+// referenceConsistency is the plane-stress consistency solve as it was
+// before the reciprocal form: Newton on r(Δγ) = q(Δγ) − σ_y(ε̄(Δγ)) with
+// bisection whenever a step leaves the bracket, to |r| ≤ 1e-13·σ_y(ε̄_n).
+// It returns Δγ and dr/dΔγ there.
+func referenceConsistency(t *testing.T, m J2, md *planeStressModes, ep0 float64) (dg, slope float64) {
+	t.Helper()
+	q := func(x float64) (q, dq float64) {
+		p, r := 1+md.ka*x, 1+md.kb*x
+		q = math.Sqrt(md.alpha/(p*p) + md.beta/(r*r))
+		return q, -(md.alpha*md.ka/(p*p*p) + md.beta*md.kb/(r*r*r)) / q
+	}
+	sy0, _ := m.hardening.Yield(ep0)
+	lo, hi, x := 0.0, math.Inf(1), 0.0
+	for it := 0; it < 500; it++ {
+		qx, dq := q(x)
+		sy, h := m.hardening.Yield(ep0 + 2*x*qx/3)
+		r, dr := qx-sy, dq-h*2*(qx+x*dq)/3
+		if math.Abs(r) <= 1e-13*sy0 {
+			return x, dr
+		}
+		if r > 0 {
+			lo = x
+		} else {
+			hi = x
+		}
+		next := x - r/dr
+		if !(dr < 0) || !(next > lo && next < hi) {
+			if math.IsInf(hi, 1) {
+				next = 2*x + 1e-12
+			} else {
+				next = (lo + hi) / 2
+			}
+		}
+		if !math.IsInf(hi, 1) && hi-lo <= 1e-15*hi {
+			return next, dr
+		}
+		x = next
+	}
+	t.Fatalf("reference consistency did not converge")
+	return 0, 0
+}
+
+// The plane-stress return's consistency solve (Newton on the reciprocal
+// form, stopped on a predicted residual) meets q = σ_y(ε̄) to 1e-14·σ_y at
+// the Δγ it returns (the bound before was 1e-13·σ_y(ε̄_n)), and its Δγ
+// differs from that of the former solve (bracketed Newton on q − σ_y to
+// |q − σ_y| ≤ 1e-13·σ_y(ε̄_n)) by no more than that solve's tolerance
+// allows, |ΔΔγ·dr/dΔγ| ≤ 1e-13·σ_y(ε̄_n): random strain directions from
+// just past yield to 300 % strain, from a virgin and from hardened
+// states, for perfectly plastic, linear and multilinear tables, and a
+// table whose slope rises (a plateau, then hardening) so that the walk
+// over segments meets both kinds of kink.
+func TestJ2PlaneStressConsistencyMatchesReference(t *testing.T) {
+	hs := testHardenings(t)
+	rising, err := NewHardening([]float64{0, 0.01, 0.02, 0.05, 0.3}, []float64{355, 355, 380, 470, 520})
+	if err != nil {
+		t.Fatal(err)
+	}
+	hs["plateau, then hardening"] = rising
+	names := make([]string, 0, len(hs))
+	for name := range hs {
+		names = append(names, name)
+	}
+	sort.Strings(names)
+	rng := rand.New(rand.NewSource(15))
+	el := Elastic{E: testE, Nu: testNu}
+	g, eA := el.ShearModulus(), el.E/(1-el.Nu)
+	for _, name := range names {
+		h := hs[name]
+		m := mustJ2(t, h, DuctileDamage{})
+		n := 0
+		for k := 0; k < 4000; k++ {
+			ep0 := []float64{0, 0.005, 0.01, 0.02, 0.08, 0.6}[k%6]
+			mag := math.Pow(10, -3+3.5*rng.Float64())
+			e := [3]float64{mag * rng.NormFloat64(), mag * rng.NormFloat64(), mag * rng.NormFloat64()}
+			md := newPlaneStressModes(eA*(e[0]+e[1]), 2*g*(e[1]-e[0]), g*e[2], eA/3, 2*g)
+			seg := h.segment(ep0)
+			sy0 := h.onSegment(seg, ep0)
+			if md.alpha+md.beta <= sy0*sy0 {
+				continue
+			}
+			n++
+			dg, _, err := m.planeStressConsistency(&md, ep0, seg)
+			if err != nil {
+				t.Fatalf("%s: %v", name, err)
+			}
+			p, r := 1+md.ka*dg, 1+md.kb*dg
+			q := math.Sqrt(md.alpha/(p*p) + md.beta/(r*r))
+			sy, _ := h.Yield(ep0 + 2*dg*q/3)
+			if math.Abs(q-sy) > 1e-14*sy {
+				t.Errorf("%s: ε̄_n %g, strain %v: q − σ_y = %.3g MPa at Δγ = %.17g", name, ep0, e, q-sy, dg)
+			}
+			want, slope := referenceConsistency(t, m, &md, ep0)
+			if d := math.Abs((dg - want) * slope); d > 1e-13*sy0 {
+				t.Errorf("%s: ε̄_n %g, strain %v: Δγ = %.17g, reference %.17g: |ΔΔγ·dr/dΔγ| = %.3g MPa", name, ep0, e, dg, want, d)
+			}
+		}
+		if n < 1000 {
+			t.Errorf("%s: only %d plastic states", name, n)
+		}
 	}
 }
