@@ -23,14 +23,18 @@ import (
 	"errors"
 	"flangeseg/fem/sparse"
 	"fmt"
+	"math"
 	"slices"
 	"time"
 
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
 	"gonum.org/v1/gonum/floats"
+	"gonum.org/v1/gonum/lapack/lapack64"
 )
 
 // maxContactEquations bounds the contact equations of the contact-space
-// solve: its dense blocks take 3·n² values (54 MB at the bound).
+// solve: its dense blocks take 5·n² values (90 MB at the bound).
 const maxContactEquations = 1500
 
 // GMRES steps on the contact equations allowed with an old factor before a
@@ -54,10 +58,15 @@ const contactTolerance = 1e-10
 type contactSpace struct {
 	eqs []int // contact equations, ascending: the factor's trailing pivots
 	at  []int // equation → place in eqs, −1 for the others
-	// l: L_CC of the factorization in use (n×n row-major lower); kc: the
-	// contact stiffness over C×C of the last tangent assembly, kc0 that of
-	// the factorization in use (n×n row-major, full).
-	l, kc, kc0 []float64
+	// lsp: L_CC of the sparse factorization, which its solves reduce
+	// with; l: the factor of the current Schur complement S₀ (lsp until
+	// refactor replaces it); base: the elements' part of S₀, S₀ − kc0
+	// (lower triangle); kc: the contact stiffness over C×C of the last
+	// tangent assembly, kc0 that of l (n×n row-major, full).
+	lsp, l, base, kc, kc0 []float64
+	// dense: l is a refactorization, not lsp; refresh: the last solve took
+	// many steps, so the next one refactorizes first.
+	dense, refresh bool
 	// change: kc − kc0 by rows (compressed), and the sliding couplings
 	// mapped to places in eqs, for the products of one solve.
 	dPtr      []int
@@ -78,7 +87,8 @@ var errContactSpaceStale = errors.New("fem: the old factor no longer serves the 
 func newContactSpace(nEq int, eqs []int) *contactSpace {
 	n := len(eqs)
 	cs := &contactSpace{eqs: eqs, at: make([]int, nEq),
-		l: make([]float64, n*n), kc: make([]float64, n*n), kc0: make([]float64, n*n),
+		lsp: make([]float64, n*n), l: make([]float64, n*n), base: make([]float64, n*n),
+		kc: make([]float64, n*n), kc0: make([]float64, n*n),
 		rhs: make([]float64, n), x: make([]float64, n), t: make([]float64, n)}
 	for i := range cs.at {
 		cs.at[i] = -1
@@ -114,6 +124,17 @@ func (cs *contactSpace) covers(g []int) bool {
 	return true
 }
 
+// interiorNorm is the norm of r over the equations other than contact.
+func (cs *contactSpace) interiorNorm(r []float64) float64 {
+	sum := 0.0
+	for q, v := range r {
+		if cs.at[q] < 0 {
+			sum += v * v
+		}
+	}
+	return math.Sqrt(sum)
+}
+
 // add adds a contact stiffness block over equations (−1: none) to kc.
 func (cs *contactSpace) add(idx []int, k []float64) {
 	n, nb := len(cs.eqs), len(idx)
@@ -139,10 +160,11 @@ func (cs *contactSpace) add(idx []int, k []float64) {
 	}
 }
 
-// prepare collects the change of the tangent since the factorization, and
-// the couplings if any, and reports whether there is one. It is false if a
-// coupling reaches beyond the contact equations.
-func (cs *contactSpace) prepare(couplings []coupling) (changed, ok bool) {
+// prepare collects the change of the contact stiffness since l was
+// factorized, and the couplings if any, and reports whether there is any
+// change and whether the stiffness changed; ok is false if a coupling
+// reaches beyond the contact equations.
+func (cs *contactSpace) prepare(couplings []coupling) (changed, stiffness, ok bool) {
 	n := len(cs.eqs)
 	cs.dPtr, cs.dCol, cs.dVal = append(cs.dPtr[:0], 0), cs.dCol[:0], cs.dVal[:0]
 	for i := range n {
@@ -162,13 +184,13 @@ func (cs *contactSpace) prepare(couplings []coupling) (changed, ok bool) {
 			places[i] = -1
 			if q >= 0 {
 				if places[i] = cs.at[q]; places[i] < 0 {
-					return false, false
+					return false, false, false
 				}
 			}
 		}
 		cs.couplings = append(cs.couplings, coupling{eqs: places, k: c.k})
 	}
-	return len(cs.dVal) > 0 || len(cs.couplings) > 0, true
+	return len(cs.dVal) > 0 || len(cs.couplings) > 0, len(cs.dVal) > 0, true
 }
 
 // mul is dst = (S₀ + Δ)·v with S₀ = L_CC·L_CCᵀ. Where v is the last
@@ -224,8 +246,12 @@ func (cs *contactSpace) precond(dst, v []float64) error {
 // tolerance tol in at most maxSteps GMRES steps; it returns the steps
 // and errContactSpaceStale if they did not reach tol.
 func (cs *contactSpace) solveInner(yc []float64, tol float64, maxSteps int, accept bool) (int, error) {
-	n := len(cs.eqs)
-	lowerMulVec(cs.rhs, cs.l, n, yc)
+	lowerMulVec(cs.rhs, cs.lsp, len(cs.eqs), yc)
+	return cs.solveReduced(yc, tol, maxSteps, accept)
+}
+
+// solveReduced is solveInner for the reduced right-hand side in cs.rhs.
+func (cs *contactSpace) solveReduced(yc []float64, tol float64, maxSteps int, accept bool) (int, error) {
 	cs.lastOut = nil
 	steps, rel, err := cs.krylov.gmres(cs.mul, cs.precond, cs.rhs, cs.x, tol, maxSteps, maxSteps)
 	if err != nil {
@@ -234,7 +260,7 @@ func (cs *contactSpace) solveInner(yc []float64, tol float64, maxSteps int, acce
 	if rel > tol && !accept {
 		return steps, errContactSpaceStale
 	}
-	lowerTransMulVec(yc, cs.l, n, cs.x)
+	lowerTransMulVec(yc, cs.lsp, len(cs.eqs), cs.x)
 	return steps, nil
 }
 
@@ -245,36 +271,73 @@ func (s *Solver) contactDirection(du, r []float64, tol float64) error {
 	if s.coupled {
 		couplings = s.couplings
 	}
-	for attempt := 0; ; attempt++ {
-		if !s.factorOK {
-			if err := s.factorize(); err != nil {
-				return err
-			}
+	if !s.factorOK {
+		if err := s.factorize(); err != nil {
+			return err
 		}
-		changed, ok := cs.prepare(couplings)
+	} else if cs.refresh {
+		if err := s.refactorContact(); err != nil {
+			return err
+		}
+	}
+	for {
+		changed, stiffness, ok := cs.prepare(couplings)
 		if !ok || cs.outside {
+			s.factorStale = true // the sparse factor's block may be older than l
 			return s.plainDirection(du, r, tol)
 		}
-		if !changed {
+		if !changed && !cs.dense && cs.interiorNorm(r) > s.interiorBelow {
 			return s.chol.SolveVecTo(du, r)
 		}
-		fresh := !s.factorStale || attempt > 0
 		var steps int
-		err := s.chol.SolveVecSplitTo(du, r, func(yc []float64) error {
-			var err error
-			steps, err = cs.solveInner(yc, contactTolerance, contactSteps, fresh)
-			return err
-		})
+		var err error
+		if cs.interiorNorm(r) <= s.interiorBelow {
+			// The interior equations are in balance (they are linear and
+			// the last step solved them): the forward solve would leave
+			// the contact equations' part as it is.
+			err = s.chol.SolveTrailingTo(du, func(yc []float64) error {
+				for i, q := range cs.eqs {
+					cs.rhs[i] = r[q]
+				}
+				var err error
+				steps, err = cs.solveReduced(yc, contactTolerance, contactSteps, !stiffness)
+				return err
+			})
+		} else {
+			err = s.chol.SolveVecSplitTo(du, r, func(yc []float64) error {
+				var err error
+				steps, err = cs.solveInner(yc, contactTolerance, contactSteps, !stiffness)
+				return err
+			})
+		}
 		s.Timing.KrylovSteps += steps
 		if errors.Is(err, errContactSpaceStale) {
-			s.factorOK = false
+			if err := s.refactorContact(); err != nil {
+				return err
+			}
 			continue
 		}
-		if err == nil && steps > contactStepsFresh {
-			s.factorOK = false // cheaper to factorize next time
-		}
+		cs.refresh = err == nil && steps > contactStepsFresh
 		return err
 	}
+}
+
+// refactorContact refactorizes the contact equations' block alone: the
+// elements' part of the tangent does not change, so the Schur complement
+// on the contact equations is the elements' (base) plus the current
+// contact stiffness, a dense Cholesky factorization of their size. Where
+// it meets a pivot that is not clearly positive the whole tangent is
+// factorized, which names the dof.
+func (s *Solver) refactorContact() error {
+	start := time.Now()
+	ok := s.cs.refactor()
+	s.Timing.Factorization += time.Since(start)
+	s.Timing.Solve -= time.Since(start)
+	s.Timing.ContactFactorizations++
+	if !ok {
+		return s.factorize()
+	}
+	return nil
 }
 
 // factorize factorizes the current tangent (and, with a contact space,
@@ -286,6 +349,9 @@ func (s *Solver) factorize() error {
 	start := time.Now()
 	err := s.chol.Factorize(s.sym, s.k)
 	s.preOK = false
+	if err == nil && s.cs != nil {
+		err = s.cs.keepFactor(&s.chol)
+	}
 	s.Timing.Factorization += time.Since(start)
 	s.Timing.Solve -= time.Since(start)
 	if err != nil {
@@ -294,13 +360,50 @@ func (s *Solver) factorize() error {
 	}
 	s.Timing.Factorizations++
 	s.factorOK, s.factorStale = true, false
-	if s.cs != nil {
-		if err := s.chol.TrailingFactor(s.cs.l); err != nil {
-			return err
-		}
-		copy(s.cs.kc0, s.cs.kc)
-	}
 	return nil
+}
+
+// keepFactor takes the trailing block of a new factorization: the block
+// the solves reduce with (lsp), the current factor (l) and the elements'
+// Schur complement base = L_CC·L_CCᵀ − kc.
+func (cs *contactSpace) keepFactor(chol *sparse.Cholesky) error {
+	if err := chol.TrailingFactor(cs.lsp); err != nil {
+		return err
+	}
+	n := len(cs.eqs)
+	copy(cs.l, cs.lsp)
+	copy(cs.kc0, cs.kc)
+	lsp := blas64.General{Rows: n, Cols: n, Stride: n, Data: cs.lsp}
+	blas64.Syrk(blas.NoTrans, 1, lsp, 0, blas64.Symmetric{Uplo: blas.Lower, N: n, Stride: n, Data: cs.base})
+	for i := range n {
+		for j := 0; j <= i; j++ {
+			cs.base[i*n+j] -= cs.kc[i*n+j]
+		}
+	}
+	cs.dense, cs.refresh = false, false
+	return nil
+}
+
+// refactor factorizes base + kc into l; false if a pivot is not clearly
+// positive (sparse.PivotTolerance relative to its diagonal entry).
+func (cs *contactSpace) refactor() bool {
+	n := len(cs.eqs)
+	for i := range n {
+		for j := 0; j <= i; j++ {
+			cs.l[i*n+j] = cs.base[i*n+j] + cs.kc[i*n+j]
+		}
+		cs.t[i] = cs.l[i*n+i]
+	}
+	_, ok := lapack64.Potrf(blas64.Symmetric{Uplo: blas.Lower, N: n, Stride: n, Data: cs.l})
+	for i := range n {
+		if d := cs.l[i*n+i]; !ok || !(d*d > sparse.PivotTolerance*math.Abs(cs.t[i])) {
+			copy(cs.l, cs.lsp)
+			return false
+		}
+	}
+	copy(cs.kc0, cs.kc)
+	cs.dense, cs.refresh = true, false
+	return true
 }
 
 // analyseContactSpace builds the pattern and its analysis with the contact

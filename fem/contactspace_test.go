@@ -128,20 +128,33 @@ func TestContactDirectionIsExact(t *testing.T) {
 		t.Fatal(err)
 	}
 	r := m.freeResidual(fext, s.fint)
-	du := make([]float64, len(r))
-	if err := s.contactDirection(du, r, 1e-12); err != nil {
-		t.Fatal(err)
-	}
-	if !s.factorStale {
-		t.Error("the solve refactorized: the old factor was not tested")
-	}
 	want := denseDirection(t, s, r)
-	num, den := 0.0, 0.0
-	for i := range du {
-		num += (du[i] - want[i]) * (du[i] - want[i])
-		den += want[i] * want[i]
+	check := func(what string) {
+		t.Helper()
+		du := make([]float64, len(r))
+		if err := s.contactDirection(du, r, 1e-12); err != nil {
+			t.Fatal(err)
+		}
+		num, den := 0.0, 0.0
+		for i := range du {
+			num += (du[i] - want[i]) * (du[i] - want[i])
+			den += want[i] * want[i]
+		}
+		if d := math.Sqrt(num / den); d > 1e-8 {
+			t.Errorf("%s: contact-space direction differs from the dense solve by %.3g (relative)", what, d)
+		}
 	}
-	if d := math.Sqrt(num / den); d > 1e-8 {
-		t.Errorf("contact-space direction differs from the dense solve by %.3g (relative)", d)
+	factorizations := s.Timing.Factorizations
+	check("old factor")
+	// The contact block refactorized alone (the elements' Schur
+	// complement plus the current contact stiffness) serves as a new
+	// factorization of the whole tangent would.
+	s.cs.refresh = true
+	check("contact block refactorized")
+	if !s.cs.dense || s.Timing.ContactFactorizations == 0 {
+		t.Error("the contact block was not refactorized")
+	}
+	if s.Timing.Factorizations != factorizations {
+		t.Errorf("%d factorizations of the whole tangent, want none", s.Timing.Factorizations-factorizations)
 	}
 }

@@ -96,7 +96,7 @@ func (s *Solver) Points() ([][]PointResult, error) {
 // results; EvaluatePoints adds them later, for a model whose points keep
 // no history.
 func (s *Solver) Displacements() *Solution {
-	return &Solution{model: s.m, U: slices.Clone(s.u), Equations: s.m.nEq, FactorNonzeros: s.sym.FactorNNZ()}
+	return &Solution{model: s.m, U: slices.Clone(s.u), Equations: s.m.nEq, FactorNonzeros: s.factorNonzeros()}
 }
 
 // EvaluatePoints computes the integration point results of a Solution
@@ -124,5 +124,13 @@ func (s *Solver) Snapshot() (*Solution, error) {
 	if err != nil {
 		return nil, err
 	}
-	return &Solution{model: s.m, U: slices.Clone(s.u), Points: pts, Equations: s.m.nEq, FactorNonzeros: s.sym.FactorNNZ()}, nil
+	return &Solution{model: s.m, U: slices.Clone(s.u), Points: pts, Equations: s.m.nEq, FactorNonzeros: s.factorNonzeros()}, nil
+}
+
+// factorNonzeros is the factor's size, 0 before the first solve.
+func (s *Solver) factorNonzeros() int {
+	if s.sym == nil {
+		return 0
+	}
+	return s.sym.FactorNNZ()
 }

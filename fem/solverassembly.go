@@ -44,7 +44,7 @@ func (s *Solver) ensurePattern() error {
 			fresh = fresh || s.cs == nil || !s.cs.covers(g)
 		}
 	}
-	if !fresh {
+	if !fresh && !s.unanalysed {
 		return nil
 	}
 	return s.rebuild()
@@ -86,6 +86,7 @@ func (s *Solver) rebuild() error {
 		}
 	}
 	s.k, s.sym, s.cs, s.klin = k, sym, cs, nil
+	s.unanalysed = false
 	if cs != nil {
 		if err := s.a.addLinearTangent(k); err != nil {
 			return err

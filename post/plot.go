@@ -9,6 +9,7 @@ import (
 	"errors"
 	"fmt"
 	"image/color"
+	"image/png"
 	"io"
 	"math"
 	"strconv"
@@ -180,8 +181,11 @@ func renderPNG(p Plot) ([]byte, error) {
 	if err := render(c, p); err != nil {
 		return nil, err
 	}
+	// Line art on a white page compresses well at the fastest level too:
+	// a few per cent larger files, written in half the time.
 	var buf bytes.Buffer
-	if _, err := (vgimg.PngCanvas{Canvas: c}).WriteTo(&buf); err != nil {
+	enc := png.Encoder{CompressionLevel: png.BestSpeed}
+	if err := enc.Encode(&buf, c.Image()); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil

@@ -224,6 +224,7 @@ func addTiming(a, b fem.Timing) fem.Timing {
 	b.Factorizations += a.Factorizations
 	b.Analyses += a.Analyses
 	b.KrylovSteps += a.KrylovSteps
+	b.ContactFactorizations += a.ContactFactorizations
 	return b
 }
 

@@ -177,32 +177,38 @@ func (v factorView[F]) solve(dst, b []float64, ws *solveSpace, workers int) {
 }
 
 // solveSplit is solve with inner, if not nil, applied to the trailing
-// equations' part of the forward solution before the backward solve.
+// equations' part of the forward solution before the backward solve; b
+// nil stands for a right-hand side that is zero but for the trailing
+// equations, which inner sets.
 func (v factorView[F]) solveSplit(dst, b []float64, ws *solveSpace, workers int, inner func([]float64) error) error {
 	s, sp := v.s, v.s.solve
 	if sp.entries < minParallelSolve {
 		workers = 1
 	}
 	y := ws.y
-	if workers > 1 {
-		runParts(workers, len(sp.parts), func(p int) { v.forwardPart(p, b, ws) })
+	if b == nil {
+		clear(y)
 	} else {
-		for p := range sp.parts { // no closure: a serial solve allocates nothing
-			v.forwardPart(p, b, ws)
+		if workers > 1 {
+			runParts(workers, len(sp.parts), func(p int) { v.forwardPart(p, b, ws) })
+		} else {
+			for p := range sp.parts { // no closure: a serial solve allocates nothing
+				v.forwardPart(p, b, ws)
+			}
 		}
-	}
-	nt := len(sp.topCols)
-	for _, i := range sp.topCols {
-		y[i] = b[s.perm[i]]
-	}
-	for p := range sp.parts { // the buffers hold −Σ L_ij y_j
-		for q, i := range sp.topCols {
-			y[i] += ws.buf[p*nt+q]
+		nt := len(sp.topCols)
+		for _, i := range sp.topCols {
+			y[i] = b[s.perm[i]]
 		}
-	}
-	for _, t := range sp.top {
-		x, B, below := v.forwardSupernode(t, y)
-		subtractRows(y, below, B, x)
+		for p := range sp.parts { // the buffers hold −Σ L_ij y_j
+			for q, i := range sp.topCols {
+				y[i] += ws.buf[p*nt+q]
+			}
+		}
+		for _, t := range sp.top {
+			x, B, below := v.forwardSupernode(t, y)
+			subtractRows(y, below, B, x)
+		}
 	}
 	if inner != nil {
 		if err := inner(y[s.n-s.trailing : s.n]); err != nil {

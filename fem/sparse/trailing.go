@@ -152,3 +152,23 @@ func (c *Cholesky) SolveVecSplitTo(dst, b []float64, inner func(yc []float64) er
 	defer c.solvePool.Put(ws)
 	return factorView[float64]{c.sym, c.lx}.solveSplit(dst, b, ws, c.numWorkers(), inner)
 }
+
+// SolveTrailingTo is the backward half of SolveVecSplitTo for a
+// right-hand side that is zero outside the trailing equations (see
+// AnalyzeLast), whose forward solve changes nothing outside them: inner
+// receives y_C = 0 and sets it, and dst = Pᵀ·L⁻ᵀ·y.
+func (c *Cholesky) SolveTrailingTo(dst []float64, inner func(yc []float64) error) error {
+	if !c.valid {
+		return fmt.Errorf("sparse: SolveTrailingTo: %w", errNoFactor)
+	}
+	n := c.sym.n
+	if len(dst) != n {
+		return fmt.Errorf("sparse: SolveTrailingTo: len(dst) = %d, want %d: %w", len(dst), n, errLength)
+	}
+	if c.sym.trailing == 0 {
+		return fmt.Errorf("sparse: SolveTrailingTo: %w", errTrailing)
+	}
+	ws := c.solvePool.Get().(*solveSpace)
+	defer c.solvePool.Put(ws)
+	return factorView[float64]{c.sym, c.lx}.solveSplit(dst, nil, ws, c.numWorkers(), inner)
+}
