@@ -33,6 +33,7 @@ func BenchmarkDemo(b *testing.B) {
 			b.ReportMetric(res.timing.Contact.Seconds(), m.Name+"-contact-s")
 			b.ReportMetric(res.timing.Solve.Seconds(), m.Name+"-solve-s")
 			b.ReportMetric(float64(res.timing.Factorizations), m.Name+"-factorizations")
+			b.ReportMetric(float64(res.timing.ContactFactorizations), m.Name+"-contact-factorizations")
 			b.ReportMetric(float64(res.timing.KrylovSteps), m.Name+"-gmres-steps")
 			b.ReportMetric(float64(res.timing.Iterations), m.Name+"-iterations")
 		}
