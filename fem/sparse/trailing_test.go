@@ -136,6 +136,37 @@ func TestSolveVecSplitTo(t *testing.T) {
 		t.Errorf("split solve differs from the dense solve by %.3g (relative)", d)
 	}
 
+	// A right-hand side that is zero outside the trailing equations needs
+	// no forward solve: its reduction onto them is its trailing part.
+	bc := make([]float64, n)
+	for _, i := range last {
+		bc[i] = b[i]
+	}
+	viaTrailing, plainC := make([]float64, n), make([]float64, n)
+	if err := c.SolveVecTo(plainC, bc); err != nil {
+		t.Fatal(err)
+	}
+	err = c.SolveTrailingTo(viaTrailing, func(yc []float64) error {
+		rhs := mat.NewVecDense(nc, nil)
+		for k, i := range last {
+			rhs.SetVec(k, bc[i])
+		}
+		var sol mat.VecDense
+		if err := sol.SolveVec(&reducedPlain{lm}, rhs); err != nil {
+			return err
+		}
+		var back mat.VecDense
+		back.MulVec(lm.T(), &sol)
+		copy(yc, back.RawVector().Data)
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := relDiffVec(viaTrailing, plainC); d > 1e-10 {
+		t.Errorf("SolveTrailingTo differs from SolveVecTo by %.3g (relative)", d)
+	}
+
 	// With an inner step that changes nothing it is the plain solve.
 	plain, split := make([]float64, n), make([]float64, n)
 	if err := c.SolveVecTo(plain, b); err != nil {
@@ -208,4 +239,27 @@ func relDiff(a, b mat.Matrix) float64 {
 	var d mat.Dense
 	d.Sub(a, b)
 	return mat.Norm(&d, 2) / math.Max(mat.Norm(b, 2), math.SmallestNonzeroFloat64)
+}
+
+// reducedPlain is L_CC·L_CCᵀ as a matrix.
+type reducedPlain struct{ l *mat.Dense }
+
+func (r *reducedPlain) Dims() (int, int) { return r.l.Dims() }
+func (r *reducedPlain) At(i, j int) float64 {
+	n, _ := r.l.Dims()
+	s := 0.0
+	for k := range n {
+		s += r.l.At(i, k) * r.l.At(j, k)
+	}
+	return s
+}
+func (r *reducedPlain) T() mat.Matrix { return r }
+
+func relDiffVec(a, b []float64) float64 {
+	num, den := 0.0, 0.0
+	for i := range a {
+		num += (a[i] - b[i]) * (a[i] - b[i])
+		den += b[i] * b[i]
+	}
+	return math.Sqrt(num / math.Max(den, math.SmallestNonzeroFloat64))
 }
