@@ -213,19 +213,7 @@ func (cs *contactSpace) mul(dst, v []float64) error {
 		dst[i] += s
 	}
 	for _, c := range cs.couplings {
-		nb := len(c.eqs)
-		for i, pi := range c.eqs {
-			if pi < 0 {
-				continue
-			}
-			s := 0.0
-			for j, pj := range c.eqs {
-				if pj >= 0 {
-					s += c.k[i*nb+j] * v[pj]
-				}
-			}
-			dst[pi] += s
-		}
+		c.addProduct(dst, v)
 	}
 	return nil
 }

@@ -11,7 +11,9 @@ import (
 	"flangeseg/mesh"
 )
 
-// frictionBlocks is two elastic blocks of different stiffness pressed
+// frictionBlocks is two elastic blocks of different stiffness (the
+// blocks of the verify contact patch, which this package cannot import)
+// pressed
 // together through non-matching meshes with friction: the soft upper block
 // spreads more under the push, so the interface slides near its free end
 // and sticks near the symmetry line, and the tangent carries sliding

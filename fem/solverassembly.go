@@ -221,19 +221,24 @@ func (s *Solver) mulTangent(dst, v []float64) error {
 		return nil
 	}
 	for _, c := range s.couplings {
-		n := len(c.eqs)
-		for i, ei := range c.eqs {
-			if ei < 0 {
-				continue
-			}
-			sum := 0.0
-			for j, ej := range c.eqs {
-				if ej >= 0 {
-					sum += c.k[i*n+j] * v[ej]
-				}
-			}
-			dst[ei] += sum
-		}
+		c.addProduct(dst, v)
 	}
 	return nil
+}
+
+// addProduct adds the block's product with v to dst (indices −1: none).
+func (c coupling) addProduct(dst, v []float64) {
+	n := len(c.eqs)
+	for i, ei := range c.eqs {
+		if ei < 0 {
+			continue
+		}
+		sum := 0.0
+		for j, ej := range c.eqs {
+			if ej >= 0 {
+				sum += c.k[i*n+j] * v[ej]
+			}
+		}
+		dst[ei] += sum
+	}
 }
