@@ -13,11 +13,10 @@ import (
 
 // frictionBlocks is two elastic blocks of different stiffness (the
 // blocks of the verify contact patch, which this package cannot import)
-// pressed
-// together through non-matching meshes with friction: the soft upper block
-// spreads more under the push, so the interface slides near its free end
-// and sticks near the symmetry line, and the tangent carries sliding
-// couplings.
+// pressed together through non-matching meshes with friction: the soft
+// upper block spreads more under the push, so the interface slides near
+// its free end and sticks near the symmetry line, and the tangent carries
+// sliding couplings.
 func frictionBlocks(t *testing.T) (*Model, []ContactPair, RigidEdge) {
 	t.Helper()
 	const width, height = 10.0, 5.0
