@@ -16,16 +16,21 @@ package fem
 // that GMRES costs some hundred thousand multiply-adds instead of a sparse
 // triangular solve pair and a product with the whole tangent, so an old
 // factor serves through many contact changes, and a solve costs one pair
-// of sparse triangular solves. Plasticity or large deformation change the
-// whole tangent; their models keep the plain path (direction).
+// of sparse triangular solves. When the changes pile up, the block on C is
+// refactorized alone: the elements' part of S₀ is kept, and S₀ of the
+// current tangent is that plus the current contact stiffness, a dense
+// Cholesky factorization of C's size. Plasticity or large deformation
+// change the whole tangent; their models keep the whole-tangent path
+// (plainDirection).
 
 import (
 	"errors"
-	"flangeseg/fem/sparse"
 	"fmt"
 	"math"
 	"slices"
 	"time"
+
+	"flangeseg/fem/sparse"
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
