@@ -42,10 +42,11 @@ const maxElementNodes = maxElementDofs / 2
 // part of a worker's scratch: what strain computes for accumulate, and the
 // strain–displacement rows and their products with the tangent.
 type pointWork struct {
-	h     deformation   // F − I (FiniteStrain)
-	valid bool          // h is not inverted
-	log   logStrain     // ½ ln C and its derivatives (FiniteStrain)
-	d     material.Mat4 // the law's tangent
+	h      deformation   // F − I (FiniteStrain)
+	valid  bool          // h is not inverted
+	log    logStrain     // ½ ln C and its derivatives (FiniteStrain)
+	d      material.Mat4 // the law's tangent
+	stress material.Vec4 // the law's stress
 	// b holds the columns of the strain–displacement matrix B of each
 	// node, db those of w·D·B: per node, so that the pass over the node
 	// pairs reads one record a node.
