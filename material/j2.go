@@ -177,7 +177,7 @@ func (m J2) Respond(c Condition, strain Vec4, committed, trial []float64, stress
 		old = (*[j2StateSize]float64)(committed)
 	}
 	for i, v := range strain {
-		if v-v != 0 { // NaN or ±Inf: x − x is 0 for every finite x
+		if !(math.Abs(v) <= math.MaxFloat64) { // NaN or ±Inf: one comparison
 			return fmt.Errorf("material: J2 law: strain component %d = %g: not finite", i, v)
 		}
 	}
