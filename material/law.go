@@ -46,11 +46,12 @@ type Law interface {
 	// strain into stress and tangent (both non-nil, every component set),
 	// starting from the committed history; it writes the history that goes
 	// with that strain into trial (len StateSize) and leaves committed
-	// untouched (the two must not overlap). In plane stress the yy strain
-	// given is ignored and the stress has σ_yy = 0. The answer goes into the
-	// caller's memory, not out as values: an element calls this at every
-	// integration point, and a 4×4 tangent returned through an interface
-	// is copied twice on its way (see BENCHMARKS.md, "Element work").
+	// untouched (the two must not overlap; after an error trial holds no
+	// state to use). In plane stress the yy strain given is ignored and the
+	// stress has σ_yy = 0. The answer goes into the caller's memory, not
+	// out as values: an element calls this at every integration point, and
+	// a 4×4 tangent returned through an interface was copied twice on its
+	// way (BENCHMARKS.md, "Element work").
 	Respond(c Condition, strain Vec4, committed, trial []float64, stress *Vec4, tangent *Mat4) error
 }
 
