@@ -189,6 +189,7 @@ func BenchmarkElementPoint(b *testing.B) {
 	}{
 		{"finite-strain/elastic", FiniteStrain{}, laws[0], flopsFiniteKernel + flopsHooke},
 		{"finite-strain/yielding", FiniteStrain{}, laws[1], flopsFiniteKernel + flopsJ2Yielding},
+		{"small-strain/elastic", SmallStrain{}, laws[0], flopsSmallKernel + flopsHooke},
 		{"small-strain/yielding", SmallStrain{}, laws[1], flopsSmallKernel + flopsJ2Yielding},
 	}
 	for _, tc := range cases {

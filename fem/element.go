@@ -161,14 +161,14 @@ func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, 
 			elastic[c] -= eigen[c]
 		}
 		committed, trial := m.history.point(e, ip)
-		// The tangent lives in s: a local passed to the interface method
-		// by address would be allocated at every point.
+		// The law writes the stress and the tangent into s: a local passed
+		// to the interface method by address would be allocated at every
+		// point.
 		d := &s.point.d
-		var stress material.Vec4
-		stress, *d, err = law.Respond(m.opt.Condition, elastic, committed, trial)
-		if err != nil {
+		if err := law.Respond(m.opt.Condition, elastic, committed, trial, &s.point.stress, d); err != nil {
 			return &PointError{Element: e, Point: ip, Err: err}
 		}
+		stress := s.point.stress
 		m.kin.accumulate(m.opt.Condition, g, &s.point, stress, d, fe, ke)
 		if spring != [2]float64{} {
 			addFoundation(g, spring, ue, fe, ke)

@@ -14,9 +14,9 @@ type recorder struct{ material.Elastic }
 
 func (recorder) StateSize() int { return 1 }
 
-func (r recorder) Respond(c material.Condition, strain material.Vec4, committed, trial []float64) (material.Vec4, material.Mat4, error) {
+func (r recorder) Respond(c material.Condition, strain material.Vec4, committed, trial []float64, stress *material.Vec4, tangent *material.Mat4) error {
 	trial[0] = math.Max(committed[0], strain[1])
-	return r.Elastic.Respond(c, strain, nil, nil)
+	return r.Elastic.Respond(c, strain, nil, nil, stress, tangent)
 }
 
 // The material state follows the solver: trial values at every

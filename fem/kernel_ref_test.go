@@ -218,8 +218,9 @@ func referenceResponse(t *testing.T, m *Model, e int, ue []float64) (fe, ke []fl
 			elastic[k] -= m.eigen[region][k]
 		}
 		committed, trial := m.history.point(e, ip)
-		stress, d, err := m.laws[region].Respond(c, elastic, committed, trial)
-		if err != nil {
+		var stress material.Vec4
+		var d material.Mat4
+		if err := m.laws[region].Respond(c, elastic, committed, trial, &stress, &d); err != nil {
 			t.Fatal(err)
 		}
 		sv, dm := stress, d

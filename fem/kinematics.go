@@ -42,10 +42,11 @@ const maxElementNodes = maxElementDofs / 2
 // part of a worker's scratch: what strain computes for accumulate, and the
 // strain–displacement rows and their products with the tangent.
 type pointWork struct {
-	h     deformation   // F − I (FiniteStrain)
-	valid bool          // h is not inverted
-	log   logStrain     // ½ ln C and its derivatives (FiniteStrain)
-	d     material.Mat4 // the law's tangent
+	h      deformation   // F − I (FiniteStrain)
+	valid  bool          // h is not inverted
+	log    logStrain     // ½ ln C and its derivatives (FiniteStrain)
+	d      material.Mat4 // the law's tangent
+	stress material.Vec4 // the law's stress
 	// b holds the columns of the strain–displacement matrix B of each
 	// node, db those of w·D·B: per node, so that the pass over the node
 	// pairs reads one record a node.
@@ -60,18 +61,25 @@ type nodeColumns struct{ x, z [4]float64 }
 // SmallStrain is the geometrically linear formulation ε = B·u.
 type SmallStrain struct{}
 
+// strain of the small-strain B: the sums run in scalars (the elements of
+// an array are kept in memory, each += a load and a store on the chain)
+// over slices of one length.
 func (SmallStrain) strain(c material.Condition, g *PointGeometry, u []float64, _ *pointWork) material.Vec4 {
-	var e material.Vec4
-	for a := range g.N {
+	n := len(g.N)
+	dndx, dndz, u := g.DNdx[:n], g.DNdz[:n], u[:2*n]
+	var exx, ezz, eyy, gxz float64
+	for a := range dndx {
 		ux, uz := u[2*a], u[2*a+1]
-		e[0] += g.DNdx[a] * ux
-		e[1] += g.DNdz[a] * uz
-		e[3] += g.DNdz[a]*ux + g.DNdx[a]*uz
-		if c == material.Axisymmetric {
-			e[2] += g.N[a] / g.X * ux
+		exx += dndx[a] * ux
+		ezz += dndz[a] * uz
+		gxz += dndz[a]*ux + dndx[a]*uz
+	}
+	if c == material.Axisymmetric {
+		for a, na := range g.N {
+			eyy += na / g.X * u[2*a]
 		}
 	}
-	return e
+	return material.Vec4{exx, ezz, eyy, gxz}
 }
 
 // accumulate of the small-strain B, whose column of node a is (∂N/∂x, 0,

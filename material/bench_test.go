@@ -18,11 +18,13 @@ func BenchmarkJ2RespondPlastic(b *testing.B) {
 		b.Run(c.String(), func(b *testing.B) {
 			committed := make([]float64, m.StateSize())
 			trial := make([]float64, m.StateSize())
-			if _, _, err := m.Respond(c, Vec4{0.03, -0.012, -0.01, 0.01}, nil, committed); err != nil {
+			var s Vec4
+			var d Mat4
+			if err := m.Respond(c, Vec4{0.03, -0.012, -0.01, 0.01}, nil, committed, &s, &d); err != nil {
 				b.Fatal(err)
 			}
 			e := Vec4{0.036, -0.014, -0.012, 0.012}
-			if _, _, err := m.Respond(c, e, committed, trial); err != nil {
+			if err := m.Respond(c, e, committed, trial, &s, &d); err != nil {
 				b.Fatal(err)
 			}
 			if m.EquivalentPlasticStrain(trial) <= m.EquivalentPlasticStrain(committed) {
@@ -30,7 +32,7 @@ func BenchmarkJ2RespondPlastic(b *testing.B) {
 			}
 			b.ReportAllocs()
 			for b.Loop() {
-				if _, _, err := m.Respond(c, e, committed, trial); err != nil {
+				if err := m.Respond(c, e, committed, trial, &s, &d); err != nil {
 					b.Fatal(err)
 				}
 			}

@@ -14,7 +14,9 @@
 //	committed := make([]float64, law.StateSize()) // zero: virgin
 //	trial := make([]float64, law.StateSize())
 //	strain := material.Vec4{0, 0.01, 0, 0} // xx, zz, yy, γ_xz
-//	stress, tangent, err := law.Respond(material.PlaneStress, strain, committed, trial)
+//	var stress material.Vec4
+//	var tangent material.Mat4
+//	err := law.Respond(material.PlaneStress, strain, committed, trial, &stress, &tangent)
 //	ep, d := law.EquivalentPlasticStrain(trial), law.Damage(trial)
 //
 // # Conventions

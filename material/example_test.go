@@ -26,8 +26,9 @@ func ExampleJ2() {
 		return
 	}
 	trial := make([]float64, law.StateSize())
-	s, _, err := law.Respond(material.PlaneStrain, material.Vec4{-0.003, 0.012, 0, 0}, nil, trial)
-	if err != nil {
+	var s material.Vec4
+	var d material.Mat4
+	if err := law.Respond(material.PlaneStrain, material.Vec4{-0.003, 0.012, 0, 0}, nil, trial, &s, &d); err != nil {
 		fmt.Println(err)
 		return
 	}

@@ -1,6 +1,7 @@
 package material
 
 import (
+	"errors"
 	"fmt"
 	"math"
 )
@@ -43,7 +44,16 @@ type History interface {
 // holds exactly, the consistency parameter is found by a safeguarded scalar
 // Newton iteration, and ε_yy is an outcome stored in the state at
 // StateOutOfPlaneStrain.
-type J2 struct {
+//
+// A J2 is one pointer to its constants (make it with NewJ2; the zero
+// value answers with an error): an element calls the law at every
+// integration point through the Law interface, and a law of 144 bytes
+// held by value was copied at each call and again into each method the
+// return uses.
+type J2 struct{ *j2Law }
+
+// j2Law holds the constants of a J2 law, fixed by NewJ2.
+type j2Law struct {
 	elastic   Elastic
 	hardening Hardening
 	damage    DuctileDamage
@@ -82,17 +92,33 @@ func NewJ2(el Elastic, h Hardening, d DuctileDamage) (J2, error) {
 		rateA:   el.E / (1 - el.Nu) / 3,
 		nuOverE: el.Nu / el.E,
 	}
-	return J2{elastic: el, hardening: h, damage: d, moduli: mod}, nil
+	return J2{&j2Law{elastic: el, hardening: h, damage: d, moduli: mod}}, nil
 }
 
-// Elasticity is the elastic part of the law.
-func (m J2) Elasticity() Elastic { return m.elastic }
+// Elasticity is the elastic part of the law (zero for the zero J2).
+func (m J2) Elasticity() Elastic {
+	if m.j2Law == nil {
+		return Elastic{}
+	}
+	return m.elastic
+}
 
-// HardeningCurve is the hardening table of the law.
-func (m J2) HardeningCurve() Hardening { return m.hardening }
+// HardeningCurve is the hardening table of the law (empty for the zero
+// J2).
+func (m J2) HardeningCurve() Hardening {
+	if m.j2Law == nil {
+		return Hardening{}
+	}
+	return m.hardening
+}
 
-// DamageModel is the damage indicator of the law.
-func (m J2) DamageModel() DuctileDamage { return m.damage }
+// DamageModel is the damage indicator of the law (off for the zero J2).
+func (m J2) DamageModel() DuctileDamage {
+	if m.j2Law == nil {
+		return DuctileDamage{}
+	}
+	return m.damage
+}
 
 // StateSize implements Law: see the State… constants for the layout.
 func (J2) StateSize() int { return j2StateSize }
@@ -128,50 +154,54 @@ func stateValue(state []float64, i int) float64 {
 }
 
 // Respond implements Law. A nil committed state is the virgin state; trial
-// must hold StateSize values.
-func (m J2) Respond(c Condition, strain Vec4, committed, trial []float64) (Vec4, Mat4, error) {
-	if len(trial) < j2StateSize {
-		return Vec4{}, Mat4{}, fmt.Errorf("material: J2 law: trial state has %d values, need %d", len(trial), j2StateSize)
+// must hold StateSize values. The return works on trial in place (a copy
+// of committed first), so committed and trial must not be the same
+// slice.
+func (m J2) Respond(c Condition, strain Vec4, committed, trial []float64, stress *Vec4, tangent *Mat4) error {
+	if m.j2Law == nil {
+		return errors.New("material: J2 law: zero value: make the law with NewJ2")
 	}
-	var old [j2StateSize]float64
+	if len(trial) < j2StateSize {
+		return fmt.Errorf("material: J2 law: trial state has %d values, need %d", len(trial), j2StateSize)
+	}
+	next := (*[j2StateSize]float64)(trial)
+	var virgin [j2StateSize]float64
+	old := &virgin
 	switch {
 	case committed == nil:
 	case len(committed) < j2StateSize:
-		return Vec4{}, Mat4{}, fmt.Errorf("material: J2 law: committed state has %d values, need %d", len(committed), j2StateSize)
+		return fmt.Errorf("material: J2 law: committed state has %d values, need %d", len(committed), j2StateSize)
+	case &committed[0] == &trial[0]:
+		return errors.New("material: J2 law: committed and trial state are the same slice")
 	default:
-		copy(old[:], committed)
+		old = (*[j2StateSize]float64)(committed)
 	}
 	for i, v := range strain {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return Vec4{}, Mat4{}, fmt.Errorf("material: J2 law: strain component %d = %g: not finite", i, v)
+		if !(math.Abs(v) <= math.MaxFloat64) { // NaN or ±Inf: one comparison
+			return fmt.Errorf("material: J2 law: strain component %d = %g: not finite", i, v)
 		}
 	}
-	var (
-		s   Vec4
-		d   Mat4
-		err error
-	)
-	next := old
+	*next = *old
+	var err error
 	switch c {
 	case PlaneStrain, Axisymmetric:
-		s, d = m.respond3D(strain, &old, &next)
+		m.respond3D(&strain, old, next, stress, tangent)
 	case PlaneStress:
-		s, d, err = m.respondPlaneStress(strain, &old, &next)
+		err = m.respondPlaneStress(&strain, old, next, stress, tangent)
 	default:
 		err = fmt.Errorf("material: J2 law: condition %v: not supported", c)
 	}
 	if err != nil {
-		return Vec4{}, Mat4{}, err
+		return err
 	}
-	next[StateDamage] += m.damage.increment(next[StateEquivalentPlasticStrain]-old[StateEquivalentPlasticStrain], s)
-	copy(trial, next[:])
-	return s, d, nil
+	next[StateDamage] += m.damage.increment(next[StateEquivalentPlasticStrain]-old[StateEquivalentPlasticStrain], *stress)
+	return nil
 }
 
 // respond3D is the radial return of the full stress; strain[2] is the yy
 // strain the caller imposes (0 in plane strain, the hoop strain in
-// axisymmetry).
-func (m J2) respond3D(strain Vec4, old, next *[j2StateSize]float64) (Vec4, Mat4) {
+// axisymmetry). It writes the stress and the tangent into s and d.
+func (m *j2Law) respond3D(strain *Vec4, old, next *[j2StateSize]float64, s *Vec4, d *Mat4) {
 	g, k := m.moduli.shear, m.moduli.bulk
 	var e Vec4 // elastic trial strain
 	for i := range e {
@@ -187,12 +217,13 @@ func (m J2) respond3D(strain Vec4, old, next *[j2StateSize]float64) (Vec4, Mat4)
 	next[StateOutOfPlaneStrain] = strain[2]
 	sy, _ := m.hardening.Yield(ep0)
 	if qtr <= sy {
-		return Vec4{str[0] + p, str[1] + p, str[2] + p, str[3]}, m.elastic.Tangent(PlaneStrain)
+		*s = Vec4{str[0] + p, str[1] + p, str[2] + p, str[3]}
+		m.elastic.tangentTo(PlaneStrain, d)
+		return
 	}
 	ep, h := m.hardening.radialReturn(qtr, 3*g, ep0)
 	dg := ep - ep0
 	factor := 1 - 3*g*dg/qtr
-	var s Vec4
 	for i := 0; i < 3; i++ {
 		s[i] = factor*str[i] + p
 		// Δε^p = Δγ·(3/2)·s_tr/q_tr
@@ -204,7 +235,7 @@ func (m J2) respond3D(strain Vec4, old, next *[j2StateSize]float64) (Vec4, Mat4)
 
 	// D = K 1⊗1 + 2G·factor·I_dev + 6G²(Δγ/q_tr − 1/(3G+H)) n̂⊗n̂, with n̂
 	// the unit trial deviator (Simo and Hughes 1998, Box 3.2).
-	var d Mat4
+	*d = Mat4{}
 	beta := 6 * g * g * (dg/qtr - 1/(3*g+h))
 	nh := Vec4{str[0] / norm, str[1] / norm, str[2] / norm, str[3] / norm}
 	for i := 0; i < 3; i++ {
@@ -219,7 +250,6 @@ func (m J2) respond3D(strain Vec4, old, next *[j2StateSize]float64) (Vec4, Mat4)
 			d[i][j] += beta * nh[i] * nh[j]
 		}
 	}
-	return s, d
 }
 
 // planeStressModes holds the trial values of the three modes that
@@ -252,8 +282,9 @@ func (md *planeStressModes) inverseQ(x float64) (g, dg float64) {
 
 // respondPlaneStress is the Simo–Taylor plane-stress return: the stress is
 // σ(Δγ) = Ξ(Δγ)·(ε − ε^p_n), Ξ = (C⁻¹ + Δγ P)⁻¹, and Δγ solves
-// q(Δγ) = σ_y(ε̄_n + (2/3)Δγ q(Δγ)).
-func (m J2) respondPlaneStress(strain Vec4, old, next *[j2StateSize]float64) (Vec4, Mat4, error) {
+// q(Δγ) = σ_y(ε̄_n + (2/3)Δγ q(Δγ)). It writes the stress and the tangent
+// into s and d.
+func (m *j2Law) respondPlaneStress(strain *Vec4, old, next *[j2StateSize]float64, s *Vec4, d *Mat4) error {
 	g, eA := m.moduli.shear, m.moduli.biaxial
 	exx := strain[0] - old[StatePlasticStrain]
 	ezz := strain[1] - old[StatePlasticStrain+1]
@@ -262,38 +293,40 @@ func (m J2) respondPlaneStress(strain Vec4, old, next *[j2StateSize]float64) (Ve
 	ep0 := old[StateEquivalentPlasticStrain]
 	seg := m.hardening.segment(ep0)
 	sy0 := m.hardening.onSegment(seg, ep0)
-	var d Mat4
+	*d = Mat4{}
 	if md.alpha+md.beta <= sy0*sy0 { // q_tr ≤ σ_y: elastic
 		a, b, t := md.a, md.b, md.t
-		s := Vec4{(a - b) / 2, (a + b) / 2, 0, t}
+		sxx, szz := (a-b)/2, (a+b)/2
+		*s = Vec4{sxx, szz, 0, t}
 		d[0][0], d[0][1], d[1][0], d[1][1] = (eA+2*g)/2, (eA-2*g)/2, (eA-2*g)/2, (eA+2*g)/2
 		d[3][3] = g
-		next[StateOutOfPlaneStrain] = -m.moduli.nuOverE*(s[0]+s[1]) + old[StatePlasticStrain+2]
-		return s, d, nil
+		next[StateOutOfPlaneStrain] = -m.moduli.nuOverE*(sxx+szz) + old[StatePlasticStrain+2]
+		return nil
 	}
 	dg, seg, err := m.planeStressConsistency(&md, ep0, seg)
 	if err != nil {
-		return Vec4{}, Mat4{}, err
+		return err
 	}
 	h := m.hardening.slope(seg)
 	p, r := 1+md.ka*dg, 1+md.kb*dg
 	inv := 1 / (p * r)
 	ip, ir := r*inv, p*inv // 1/p, 1/r
 	a, b, t := md.a*ip, md.b*ir, md.t*ir
-	s := Vec4{(a - b) / 2, (a + b) / 2, 0, t}
+	sxx, szz := (a-b)/2, (a+b)/2
+	*s = Vec4{sxx, szz, 0, t}
 	// Ξ(Δγ) in xx, zz, xz (engineering shear): the modes' moduli E/(1−ν),
 	// 2G and G, each over its p or r.
 	ma, mb, mt := eA*ip, 2*g*ir, g*ir
 	x00, x01, x33 := (ma+mb)/2, (ma-mb)/2, mt
 	// Plastic flow Δε^p = Δγ·P·σ, P·σ = (s_xx, s_zz, 2σ_xz) with σ_yy = 0.
-	n0, n1, n3 := (2*s[0]-s[1])/3, (2*s[1]-s[0])/3, 2*s[3]
+	n0, n1, n3 := (2*sxx-szz)/3, (2*szz-sxx)/3, 2*t
 	q := math.Sqrt(a*a/4 + 3*(b*b/4+t*t))
 	next[StatePlasticStrain] += dg * n0
 	next[StatePlasticStrain+1] += dg * n1
 	next[StatePlasticStrain+2] -= dg * (n0 + n1) // plastic incompressibility
 	next[StatePlasticStrain+3] += dg * n3
 	next[StateEquivalentPlasticStrain] = ep0 + 2*dg*q/3
-	next[StateOutOfPlaneStrain] = -m.moduli.nuOverE*(s[0]+s[1]) + next[StatePlasticStrain+2]
+	next[StateOutOfPlaneStrain] = -m.moduli.nuOverE*(sxx+szz) + next[StatePlasticStrain+2]
 
 	// Consistent tangent D = Ξ − c·(Ξn)(Ξn)ᵀ/(c·nᵀΞn + (4/9)H q²), with
 	// c = 1 − (2/3)HΔγ: linearise σ = Ξ(ε − ε^p_n) and q = σ_y(ε̄) with
@@ -303,13 +336,13 @@ func (m J2) respondPlaneStress(strain Vec4, old, next *[j2StateSize]float64) (Ve
 	c := 1 - 2*h*dg/3
 	den := c*nxn + 4*h*q*q/9
 	if !(den > 0) {
-		return Vec4{}, Mat4{}, fmt.Errorf("material: J2 law, plane stress: plastic step too large for the hardening slope %g MPa (Δγ = %g): tangent undefined; cut the increment", h, dg)
+		return fmt.Errorf("material: J2 law, plane stress: plastic step too large for the hardening slope %g MPa (Δγ = %g): tangent undefined; cut the increment", h, dg)
 	}
 	f := c / den
 	d[0][0], d[0][1], d[0][3] = x00-f*xn0*xn0, x01-f*xn0*xn1, -f*xn0*xn3
 	d[1][0], d[1][1], d[1][3] = d[0][1], x00-f*xn1*xn1, -f*xn1*xn3
 	d[3][0], d[3][1], d[3][3] = d[0][3], d[1][3], x33-f*xn3*xn3
-	return s, d, nil
+	return nil
 }
 
 // Stopping rule of planeStressConsistency: the iteration ends once the
@@ -357,7 +390,7 @@ const (
 // that stayed within segment i, which lies left of the root of every
 // later segment's line (ρ_{i+1} = ρ_i there, and ρ_{i+1} is increasing
 // with its root past the end of segment i).
-func (m J2) planeStressConsistency(md *planeStressModes, ep0 float64, seg int) (dg float64, _ int, err error) {
+func (m *j2Law) planeStressConsistency(md *planeStressModes, ep0 float64, seg int) (dg float64, _ int, err error) {
 	hd := &m.hardening
 	last := hd.Len() - 1
 	hs, s := hd.slope(seg), hd.onSegment(seg, ep0)

@@ -50,8 +50,9 @@ func testHardenings(t testing.TB) map[string]Hardening {
 func respondChecked(t testing.TB, m J2, c Condition, e Vec4, committed []float64) (Vec4, Mat4, []float64) {
 	t.Helper()
 	trial := make([]float64, m.StateSize())
-	s, d, err := m.Respond(c, e, committed, trial)
-	if err != nil {
+	var s Vec4
+	var d Mat4
+	if err := m.Respond(c, e, committed, trial, &s, &d); err != nil {
 		t.Fatalf("%v, strain %v: %v", c, e, err)
 	}
 	return s, d, trial
@@ -210,7 +211,11 @@ func TestJ2ElasticBelowYield(t *testing.T) {
 	e := Vec4{0.0008, -0.0003, 0.0001, 0.0005}
 	for _, c := range []Condition{PlaneStress, PlaneStrain, Axisymmetric} {
 		s, d, st := respondChecked(t, m, c, e, nil)
-		s0, d0, _ := m.Elasticity().Respond(c, e, nil, nil)
+		var s0 Vec4
+		var d0 Mat4
+		if err := m.Elasticity().Respond(c, e, nil, nil, &s0, &d0); err != nil {
+			t.Fatal(err)
+		}
 		for i := range s {
 			if math.Abs(s[i]-s0[i]) > 1e-9*VonMises(s0) {
 				t.Errorf("%v: stress %v, Hooke %v", c, s, s0)
@@ -241,6 +246,7 @@ func TestJ2RespondArguments(t *testing.T) {
 			t.Fatalf("committed state changed: %v → %v", keep, committed)
 		}
 	}
+	same := make([]float64, m.StateSize())
 	bad := []struct {
 		name             string
 		c                Condition
@@ -250,12 +256,25 @@ func TestJ2RespondArguments(t *testing.T) {
 		{"short trial", PlaneStress, Vec4{}, nil, make([]float64, 3)},
 		{"short committed", PlaneStrain, Vec4{}, make([]float64, 2), make([]float64, 7)},
 		{"NaN strain", Axisymmetric, Vec4{math.NaN(), 0, 0, 0}, nil, make([]float64, 7)},
+		{"infinite strain", PlaneStress, Vec4{0, 0, 0, math.Inf(-1)}, nil, make([]float64, 7)},
+		{"committed is trial", PlaneStress, Vec4{}, same, same},
 		{"unknown condition", Condition(9), Vec4{}, nil, make([]float64, 7)},
 	}
 	for _, b := range bad {
-		if _, _, err := m.Respond(b.c, b.e, b.committed, b.trial); err == nil {
+		var s Vec4
+		var d Mat4
+		if err := m.Respond(b.c, b.e, b.committed, b.trial, &s, &d); err == nil {
 			t.Errorf("%s: accepted", b.name)
 		}
+	}
+	var zero J2
+	var s Vec4
+	var d Mat4
+	if err := zero.Respond(PlaneStress, Vec4{}, nil, make([]float64, 7), &s, &d); err == nil {
+		t.Error("the zero J2 answered")
+	}
+	if zero.Elasticity() != (Elastic{}) || zero.DamageModel() != (DuctileDamage{}) || zero.HardeningCurve().Len() != 0 {
+		t.Error("the zero J2 has parameters")
 	}
 }
 

@@ -42,12 +42,17 @@ type Law interface {
 	// StateSize is the number of history values one point keeps (0 for
 	// elastic laws).
 	StateSize() int
-	// Respond returns the stress and the consistent tangent at the total
-	// strain, starting from the committed history; it writes the history
-	// that goes with that strain into trial (len StateSize) and leaves
-	// committed untouched. In plane stress the yy strain given is ignored
-	// and the returned stress has σ_yy = 0.
-	Respond(c Condition, strain Vec4, committed, trial []float64) (Vec4, Mat4, error)
+	// Respond writes the stress and the consistent tangent at the total
+	// strain into stress and tangent (both non-nil, every component set),
+	// starting from the committed history; it writes the history that goes
+	// with that strain into trial (len StateSize) and leaves committed
+	// untouched (the two must not overlap; after an error trial holds no
+	// state to use). In plane stress the yy strain given is ignored and the
+	// stress has σ_yy = 0. The answer goes into the caller's memory, not
+	// out as values: an element calls this at every integration point, and
+	// a 4×4 tangent returned through an interface was copied twice on its
+	// way (BENCHMARKS.md, "Element work").
+	Respond(c Condition, strain Vec4, committed, trial []float64, stress *Vec4, tangent *Mat4) error
 }
 
 // Elastic is linear isotropic elasticity (Hooke's law).
@@ -76,13 +81,20 @@ func (m Elastic) ShearModulus() float64 { return m.E / (2 * (1 + m.Nu)) }
 // Tangent is the elastic matrix for condition c.
 func (m Elastic) Tangent(c Condition) Mat4 {
 	var d Mat4
+	m.tangentTo(c, &d)
+	return d
+}
+
+// tangentTo writes the elastic matrix for condition c into d, all of it.
+func (m Elastic) tangentTo(c Condition, d *Mat4) {
+	*d = Mat4{}
 	g := m.ShearModulus()
 	if c == PlaneStress {
 		f := m.E / (1 - m.Nu*m.Nu)
 		d[0][0], d[0][1] = f, f*m.Nu
 		d[1][0], d[1][1] = f*m.Nu, f
 		d[3][3] = g
-		return d
+		return
 	}
 	lambda := m.E * m.Nu / ((1 + m.Nu) * (1 - 2*m.Nu))
 	for i := 0; i < 3; i++ {
@@ -92,16 +104,16 @@ func (m Elastic) Tangent(c Condition) Mat4 {
 		d[i][i] += 2 * g
 	}
 	d[3][3] = g
-	return d
 }
 
 // Respond implements Law.
-func (m Elastic) Respond(c Condition, strain Vec4, _, _ []float64) (Vec4, Mat4, error) {
+func (m Elastic) Respond(c Condition, strain Vec4, _, _ []float64, stress *Vec4, tangent *Mat4) error {
 	if m.E <= 0 {
-		return Vec4{}, Mat4{}, errors.New("material: elastic law with E <= 0")
+		return errors.New("material: elastic law with E <= 0")
 	}
-	d := m.Tangent(c)
-	return d.MulVec(strain), d, nil
+	m.tangentTo(c, tangent)
+	*stress = tangent.MulVec(strain)
+	return nil
 }
 
 // MulVec returns d·v.

@@ -24,8 +24,9 @@ func TestElasticUniaxial(t *testing.T) {
 		{"axisymmetric", Axisymmetric, Vec4{eps, lat, lat, 0}},
 	}
 	for _, tc := range cases {
-		s, _, err := m.Respond(tc.c, tc.strain, nil, nil)
-		if err != nil {
+		var s Vec4
+		var d Mat4
+		if err := m.Respond(tc.c, tc.strain, nil, nil, &s, &d); err != nil {
 			t.Fatal(err)
 		}
 		if math.Abs(s[0]-sigma) > 1e-9*sigma || math.Abs(s[1]) > 1e-9*sigma || math.Abs(s[2]) > 1e-9*sigma {

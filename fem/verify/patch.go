@@ -92,7 +92,11 @@ func runPatch(o Options) (*Outcome, error) {
 		if err != nil {
 			return nil, err
 		}
-		want, _, _ := steel.Respond(tc.cond, tc.f.strain(tc.cond), nil, nil)
+		var want material.Vec4
+		var tangent material.Mat4
+		if err := steel.Respond(tc.cond, tc.f.strain(tc.cond), nil, nil, &want, &tangent); err != nil {
+			return nil, err
+		}
 		scale := math.Max(math.Abs(want[0]), math.Max(math.Abs(want[1]), math.Abs(want[3])))
 		worst, worstVal, worstRef := 0.0, 0.0, 0.0
 		for _, pts := range sol.Points {
