@@ -79,6 +79,10 @@ Flags:
 		fmt.Fprintf(stderr, "flangeseg run: %v\n", err)
 		return exitBadInput
 	}
+	if *dump != "" && filepath.Clean(*dump) == filepath.Clean(dir) {
+		fmt.Fprintf(stderr, "flangeseg run: --dump-matrix = %s: must differ from -o (each is a result directory of its own)\n", *dump)
+		return exitBadInput
+	}
 	ctx, release := interruptible()
 	defer release()
 	return runModel(ctx, note.ModelJob{Spec: spec, Path: path, Dir: dir}, runFlags{verbose: *verbose, dump: *dump, stage: true}, stdout, stderr)
@@ -159,11 +163,19 @@ func runModel(ctx context.Context, job note.ModelJob, flags runFlags, stdout, st
 func runOptions(path string, spec *modelfile.Spec, flags runFlags, stderr io.Writer) (opt segment.Options, finish func(), err error) {
 	finish = func() {}
 	if flags.dump != "" {
-		if err := os.MkdirAll(flags.dump, 0o755); err != nil {
+		// The directory follows the output-directory rule and is put in
+		// place whole once the run ends, however it ends.
+		st, err := results.Stage(flags.dump)
+		if err != nil {
 			return opt, finish, fmt.Errorf("--dump-matrix: %w", err)
 		}
 		opt.Inspect = func(k *sparse.Matrix, rhs []float64) error {
-			return dumpSystem(flags.dump, strings.TrimSuffix(filepath.Base(path), ".toml")+" first tangent", k, rhs)
+			return dumpSystem(st.Dir, strings.TrimSuffix(filepath.Base(path), ".toml")+" first tangent", k, rhs)
+		}
+		finish = func() {
+			if err := st.Commit(results.KindMatrices); err != nil {
+				fmt.Fprintf(stderr, "%s: --dump-matrix: %v\n", path, err)
+			}
 		}
 	}
 	switch {
@@ -174,7 +186,8 @@ func runOptions(path string, spec *modelfile.Spec, flags runFlags, stderr io.Wri
 	default:
 		if bar := progressBar(stderr, spec.Load.Increments, filepath.Base(path)); bar != nil {
 			opt.Progress = func(done, _ int) { _ = bar.Set(done) }
-			finish = func() { _ = bar.Finish() }
+			commit := finish
+			finish = func() { _ = bar.Finish(); commit() }
 		}
 	}
 	return opt, finish, nil

@@ -30,10 +30,30 @@ func TestRunWritesResults(t *testing.T) {
 			t.Errorf("missing %s", f)
 		}
 	}
-	for _, f := range []string{"joint_first_tangent.matrix.mtx", "joint_first_tangent.rhs.mtx"} {
+	for _, f := range []string{"joint_first_tangent.matrix.mtx", "joint_first_tangent.rhs.mtx", "flangeseg_result.txt"} {
 		if _, err := os.Stat(filepath.Join(dump, f)); err != nil {
 			t.Errorf("--dump-matrix: missing %s", f)
 		}
+	}
+	// --dump-matrix follows the output-directory rule: a foreign directory
+	// that holds anything, or the -o directory itself, is refused.
+	foreign := filepath.Join(dir, "foreign")
+	if err := os.MkdirAll(foreign, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(foreign, "notes.txt"), []byte("mine"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, args := range [][]string{
+		{"run", model, "-o", filepath.Join(dir, "out2"), "--dump-matrix", foreign},
+		{"run", model, "-o", out, "--dump-matrix", out},
+	} {
+		if code, _, stderr := runCLI(args...); code != exitBadInput || !strings.Contains(stderr, "--dump-matrix") {
+			t.Errorf("%v: exit %d, want 2 naming --dump-matrix (%s)", args[3:], code, stderr)
+		}
+	}
+	if data, err := os.ReadFile(filepath.Join(foreign, "notes.txt")); err != nil || string(data) != "mine" {
+		t.Error("the refused directory was touched")
 	}
 	bad := filepath.Join(dir, "bad.toml")
 	if err := os.WriteFile(bad, []byte(replaceKey(t, data, "hole = 52", "hole = 40")), 0o644); err != nil {

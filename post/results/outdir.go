@@ -27,6 +27,7 @@ const (
 	KindSweep      = "sweep"        // a sweep's cases and tables, resumed in place
 	KindRing       = "ring"         // a ring check: its classes run as a sweep, resumed in place, and the per-bolt tables
 	KindVerify     = "verification" // the verification problems' fields or matrices (verify -o, --dump-matrix)
+	KindMatrices   = "matrices"     // a run's first tangent and residual (run --dump-matrix)
 )
 
 // ErrNotResult is wrapped by the error of an output directory that exists
