@@ -50,6 +50,10 @@ type Plot struct {
 	// the page (the axis with the smaller span is widened), so that a
 	// circle in the data is a circle in the picture: polar plots.
 	EqualAxes bool
+	// LogY draws the y axis in decades (base 10), for a quantity whose
+	// values span several, as fatigue damage around a ring does; every y
+	// value must then be > 0.
+	LogY bool
 }
 
 // Page size: 6 in × 4 in, which at pngDPI is 1200 × 800 px. The SVG has the
@@ -126,10 +130,20 @@ func (p Plot) validate() error {
 		if err := allFinite(where, "Y", s.Y); err != nil {
 			return err
 		}
+		if p.LogY {
+			for j, y := range s.Y {
+				if !(y > 0) {
+					return fmt.Errorf("%s: Y[%d] = %v: a logarithmic y axis needs values > 0", where, j, y)
+				}
+			}
+		}
 	}
 	for i, m := range p.Markers {
 		if plottable(m.X) != nil || plottable(m.Y) != nil {
 			return fmt.Errorf("marker %q (Markers[%d]): point (%v, %v) is not finite or beyond ±%v", m.Name, i, m.X, m.Y, plotLimit)
+		}
+		if p.LogY && !(m.Y > 0) {
+			return fmt.Errorf("marker %q (Markers[%d]): y = %v: a logarithmic y axis needs values > 0", m.Name, i, m.Y)
 		}
 	}
 	return nil
@@ -288,6 +302,10 @@ func build(p Plot) *plot.Plot {
 	}
 	pl.X.Tick.Marker = ticks{}
 	pl.Y.Tick.Marker = ticks{}
+	if p.LogY {
+		pl.Y.Scale = plot.LogScale{}
+		pl.Y.Tick.Marker = plot.LogTicks{Prec: 1}
+	}
 	pl.X.Label.Text = p.XLabel
 	pl.Y.Label.Text = p.YLabel
 

@@ -13,6 +13,7 @@ import (
 	"strings"
 	"testing"
 
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
@@ -379,5 +380,29 @@ func TestEqualAxes(t *testing.T) {
 		if pl.X.Min > -1 || pl.X.Max < 1 || pl.Y.Min > -1 || pl.Y.Max < 1 {
 			t.Errorf("axes x [%g, %g], y [%g, %g] cut the unit circle", pl.X.Min, pl.X.Max, pl.Y.Min, pl.Y.Max)
 		}
+	}
+}
+
+// TestLogY: a logarithmic y axis takes values over several decades and
+// refuses a value that has no logarithm, naming the series and the value.
+func TestLogY(t *testing.T) {
+	s := Series{Name: "damage", X: []float64{0, 90, 180, 270}, Y: []float64{1e-6, 3e-4, 0.2, 1e-5}}
+	p := Plot{Title: "damage", XLabel: "angle", YLabel: "D", Series: []Series{s}, LogY: true}
+	stem := filepath.Join(t.TempDir(), "log")
+	if err := WritePlot(stem, p); err != nil {
+		t.Fatal(err)
+	}
+	pl := build(p)
+	if _, ok := pl.Y.Scale.(plot.LogScale); !ok {
+		t.Errorf("y scale %T, want plot.LogScale", pl.Y.Scale)
+	}
+	s.Y[2] = 0
+	p.Series = []Series{s}
+	err := WritePlot(stem+"_zero", p)
+	if err == nil || !strings.Contains(err.Error(), `"damage"`) || !strings.Contains(err.Error(), "Y[2] = 0") {
+		t.Errorf("a zero on a logarithmic axis: error %v, want one naming the series and Y[2] = 0", err)
+	}
+	if _, statErr := os.Stat(stem + "_zero.svg"); statErr == nil {
+		t.Error("a refused plot left a file")
 	}
 }

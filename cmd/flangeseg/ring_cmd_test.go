@@ -224,6 +224,13 @@ func TestRingChecks(t *testing.T) {
 	if err != nil || !bytes.Contains(page, []byte("Governing bolt: 40")) || !bytes.Contains(page, []byte("design aid")) {
 		t.Errorf("report.html does not name the governing bolt or lacks the caution (%v)", err)
 	}
+	// The damage around the ring also on a logarithmic scale: the gapped
+	// bolts' damage is decades above the flat ones'.
+	for _, f := range []string{"ring_damage.svg", "ring_damage_log.svg", "ring_damage_log.png"} {
+		if _, err := os.Stat(filepath.Join(out, "plots", f)); err != nil {
+			t.Errorf("missing plots/%s", f)
+		}
+	}
 	for _, want := range []string{`aria-label="survey conventions"`, "gap_inner_mm", "gap_outer_mm", "0° · bolt 1"} {
 		if !bytes.Contains(page, []byte(want)) {
 			t.Errorf("report.html lacks the sketch of the survey's conventions (%q)", want)

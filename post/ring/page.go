@@ -53,12 +53,7 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 			XLabel: "radius: D [–]; 0° at the top, clockwise", YLabel: "D [–]",
 			Series: []post.Series{
 				polar("FE", bs, func(b BoltResult) float64 { return fe(b) }, false),
-				polar("trilinear (hand)", bs, func(b BoltResult) float64 {
-					if b.Fatigue == nil {
-						return 0
-					}
-					return b.Fatigue.DamageTrilinear
-				}, false),
+				polar("trilinear (hand)", bs, trilinear, false),
 			}}
 		if max := maxDamage(bs); max >= 0.5 {
 			// Drawn only where some bolt comes near it: otherwise the
@@ -67,6 +62,9 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 			damage.Series = append(damage.Series, polar("D = 1", bs, func(BoltResult) float64 { return 1 }, true))
 		}
 		stems, around = append(stems, "ring_damage"), append(around, damage)
+		if p, ok := damageByAngle(bs); ok {
+			stems, around = append(stems, "ring_damage_log"), append(around, p)
+		}
 	}
 	fn := post.Plot{Title: "FE bolt-force function of each class", XLabel: "Z [kN]", YLabel: "F_s [kN]"}
 	done := map[string]bool{}
@@ -81,6 +79,41 @@ func (res *Result) plots() (stems []string, around []post.Plot, curves []post.Pl
 		stems, curves = append(stems, "ring_functions"), append(curves, fn)
 	}
 	return stems, around, curves
+}
+
+// damageByAngle is the damage of every bolt against its angle on a
+// logarithmic scale: in the polar plot one gapped bolt's damage, often
+// decades above the rest, shrinks the others to a dot. Damages below a
+// millionth of the largest are drawn at that floor, which the axis label
+// names; false if no bolt has any.
+func damageByAngle(bs []BoltResult) (post.Plot, bool) {
+	top := 0.0
+	for _, b := range bs {
+		top = math.Max(top, math.Max(fe(b), trilinear(b)))
+	}
+	if !(top > 0) {
+		return post.Plot{}, false
+	}
+	floor := top * 1e-6
+	series := func(name string, v func(BoltResult) float64) post.Series {
+		s := post.Series{Name: name, Points: true}
+		for _, b := range bs {
+			s.X, s.Y = append(s.X, b.Angle), append(s.Y, math.Max(v(b), floor))
+		}
+		return s
+	}
+	limit := post.Series{Name: "D = 1", Dashed: true, X: []float64{0, 360}, Y: []float64{1, 1}}
+	return post.Plot{LogY: true, Title: "Fatigue damage D per bolt around the ring (log scale)",
+		XLabel: "bolt angle [°], 0° = bolt 1, clockwise seen from above",
+		YLabel: fmt.Sprintf("D [–]; below %.0e drawn at it", floor),
+		Series: []post.Series{series("FE", fe), series("trilinear (hand)", trilinear), limit}}, true
+}
+
+func trilinear(b BoltResult) float64 {
+	if b.Fatigue == nil {
+		return 0
+	}
+	return b.Fatigue.DamageTrilinear
 }
 
 func fe(b BoltResult) float64 {
