@@ -90,8 +90,21 @@ stop_daemons() {
       sleep 0.2
     done
   fi
+  local pids=""
   for f in "$work/slurmd.pid" "$work/slurmctld.pid" "$m/munged.pid"; do
-    if [ -s "$f" ]; then $sudo kill "$(cat "$f")" 2>/dev/null || true; fi
+    if [ -s "$f" ]; then
+      pid=$(cat "$f")
+      $sudo kill "$pid" 2>/dev/null || true
+      pids="$pids $pid"
+    fi
+  done
+  # slurmctld saves its state as it stops: wait for the daemons to be
+  # gone, so that removing the work directory does not race with them.
+  for pid in $pids; do
+    for _ in $(seq 1 100); do
+      $sudo kill -0 "$pid" 2>/dev/null || break
+      sleep 0.1
+    done
   done
 }
 fail() {

@@ -47,7 +47,7 @@ func CheckOutDir(dir string) error {
 	case !info.IsDir():
 		return fmt.Errorf("output directory %s: is a file: %w; give -o a new or empty directory, or an earlier result", dir, ErrNotResult)
 	}
-	if IsResult(dir) {
+	if IsResult(dir) || markingNow(dir) {
 		return nil
 	}
 	names, err := dirNames(dir, 3)
@@ -59,6 +59,16 @@ func CheckOutDir(dir string) error {
 	}
 	return fmt.Errorf("output directory %s %w (it has %s, and no %s): flangeseg replaces only an earlier result of its own; give -o a new or empty directory",
 		dir, ErrNotResult, strings.Join(names, ", "), MarkerFile)
+}
+
+// markingNow reports whether another flangeseg process is writing dir's
+// marker at this moment (its temporary file, post.WriteFileAtomic's,
+// stands beside no marker yet): the shards of a sweep or ring share one
+// result directory, and the first to mark it must not make the others
+// refuse it.
+func markingNow(dir string) bool {
+	tmp, _ := filepath.Glob(filepath.Join(dir, "."+MarkerFile+".tmp-*"))
+	return len(tmp) > 0
 }
 
 // IsResult reports whether dir holds the marker of a flangeseg result.

@@ -1,6 +1,7 @@
 package results
 
 import (
+	"errors"
 	"fmt"
 	"os"
 	"os/exec"
@@ -48,5 +49,29 @@ func TestStageRemovesOrphans(t *testing.T) {
 	}
 	if want := fmt.Sprintf(".res.writing-%s-%d-", host, os.Getpid()); !strings.HasPrefix(filepath.Base(st.Dir), want) {
 		t.Errorf("staging directory %s does not carry host and process (%s…)", st.Dir, want)
+	}
+}
+
+// TestCheckOutDirWhileMarking: the shards of a sweep share one result
+// directory; while one writes the marker (its temporary file stands there
+// alone) the others must take the directory as a result being made, not
+// as foreign files. Any other file still makes it foreign.
+func TestCheckOutDirWhileMarking(t *testing.T) {
+	dir := t.TempDir()
+	tmp := filepath.Join(dir, "."+MarkerFile+".tmp-1805121898")
+	if err := os.WriteFile(tmp, []byte("sweep\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := CheckOutDir(dir); err != nil {
+		t.Errorf("a marker being written: %v", err)
+	}
+	if err := os.Remove(tmp); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "notes.txt"), []byte("mine"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := CheckOutDir(dir); !errors.Is(err, ErrNotResult) {
+		t.Errorf("a foreign file: %v, want ErrNotResult", err)
 	}
 }
