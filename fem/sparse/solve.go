@@ -400,17 +400,30 @@ func subtractColumns[F float32 | float64](x []float64, B []F, rows []int32, y []
 // on up to SetWorkers goroutines; the result is the same bit for bit for
 // any number of them.
 func (c *Cholesky) SolveVecTo(dst, b []float64) error {
-	if !c.valid {
-		return fmt.Errorf("sparse: SolveVecTo: %w", errNoFactor)
+	return pooledSolve("SolveVecTo", c.valid, factorView[float64]{c.sym, c.lx}, c.solvePool, c.numWorkers(), dst, b, false, nil)
+}
+
+// pooledSolve checks the arguments of a solve with the factor v and runs
+// it on a workspace from pool. inner, if set, needs trailing equations
+// (AnalyzeLast); so does a right-hand side that is zero outside them
+// (trailingOnly: b is not read, see SolveTrailingTo).
+func pooledSolve[F float32 | float64](op string, valid bool, v factorView[F], pool *sync.Pool, workers int, dst, b []float64, trailingOnly bool, inner func([]float64) error) error {
+	if !valid {
+		return fmt.Errorf("sparse: %s: %w", op, errNoFactor)
 	}
-	n := c.sym.n
-	if len(dst) != n || len(b) != n {
-		return fmt.Errorf("sparse: SolveVecTo: len(dst) = %d, len(b) = %d, want %d: %w", len(dst), len(b), n, errLength)
+	n := v.s.n
+	if len(dst) != n || (!trailingOnly && len(b) != n) {
+		return fmt.Errorf("sparse: %s: len(dst) = %d, len(b) = %d, want %d: %w", op, len(dst), len(b), n, errLength)
 	}
-	ws := c.solvePool.Get().(*solveSpace)
-	factorView[float64]{c.sym, c.lx}.solve(dst, b, ws, c.numWorkers())
-	c.solvePool.Put(ws)
-	return nil
+	if (inner != nil || trailingOnly) && v.s.trailing == 0 {
+		return fmt.Errorf("sparse: %s: %w", op, errTrailing)
+	}
+	if trailingOnly {
+		b = nil
+	}
+	ws := pool.Get().(*solveSpace)
+	defer pool.Put(ws)
+	return v.solveSplit(dst, b, ws, workers, inner)
 }
 
 // SolveTo solves A X = B for k right-hand sides; b and dst are n×k,
@@ -484,15 +497,5 @@ func (f *Cholesky32) numWorkers() int {
 // SolveVecTo solves L̃ L̃ᵀ x = b with the rounded factor L̃ (sums in float64)
 // and stores x in dst. dst may alias b.
 func (f *Cholesky32) SolveVecTo(dst, b []float64) error {
-	if !f.valid {
-		return fmt.Errorf("sparse: Cholesky32.SolveVecTo: %w", errNoFactor)
-	}
-	n := f.sym.n
-	if len(dst) != n || len(b) != n {
-		return fmt.Errorf("sparse: Cholesky32.SolveVecTo: len(dst) = %d, len(b) = %d, want %d: %w", len(dst), len(b), n, errLength)
-	}
-	ws := f.pool.Get().(*solveSpace)
-	factorView[float32]{f.sym, f.lx}.solve(dst, b, ws, f.numWorkers())
-	f.pool.Put(ws)
-	return nil
+	return pooledSolve("Cholesky32.SolveVecTo", f.valid, factorView[float32]{f.sym, f.lx}, f.pool, f.numWorkers(), dst, b, false, nil)
 }

@@ -138,19 +138,7 @@ func (c *Cholesky) TrailingFactor(dst []float64) error {
 // doing nothing gives SolveVecTo's result. An error from inner stops the
 // solve and is returned.
 func (c *Cholesky) SolveVecSplitTo(dst, b []float64, inner func(yc []float64) error) error {
-	if !c.valid {
-		return fmt.Errorf("sparse: SolveVecSplitTo: %w", errNoFactor)
-	}
-	n := c.sym.n
-	if len(dst) != n || len(b) != n {
-		return fmt.Errorf("sparse: SolveVecSplitTo: len(dst) = %d, len(b) = %d, want %d: %w", len(dst), len(b), n, errLength)
-	}
-	if c.sym.trailing == 0 {
-		return fmt.Errorf("sparse: SolveVecSplitTo: %w", errTrailing)
-	}
-	ws := c.solvePool.Get().(*solveSpace)
-	defer c.solvePool.Put(ws)
-	return factorView[float64]{c.sym, c.lx}.solveSplit(dst, b, ws, c.numWorkers(), inner)
+	return pooledSolve("SolveVecSplitTo", c.valid, factorView[float64]{c.sym, c.lx}, c.solvePool, c.numWorkers(), dst, b, false, inner)
 }
 
 // SolveTrailingTo is the backward half of SolveVecSplitTo for a
@@ -158,17 +146,5 @@ func (c *Cholesky) SolveVecSplitTo(dst, b []float64, inner func(yc []float64) er
 // AnalyzeLast), whose forward solve changes nothing outside them: inner
 // receives y_C = 0 and sets it, and dst = Pᵀ·L⁻ᵀ·y.
 func (c *Cholesky) SolveTrailingTo(dst []float64, inner func(yc []float64) error) error {
-	if !c.valid {
-		return fmt.Errorf("sparse: SolveTrailingTo: %w", errNoFactor)
-	}
-	n := c.sym.n
-	if len(dst) != n {
-		return fmt.Errorf("sparse: SolveTrailingTo: len(dst) = %d, want %d: %w", len(dst), n, errLength)
-	}
-	if c.sym.trailing == 0 {
-		return fmt.Errorf("sparse: SolveTrailingTo: %w", errTrailing)
-	}
-	ws := c.solvePool.Get().(*solveSpace)
-	defer c.solvePool.Put(ws)
-	return factorView[float64]{c.sym, c.lx}.solveSplit(dst, nil, ws, c.numWorkers(), inner)
+	return pooledSolve("SolveTrailingTo", c.valid, factorView[float64]{c.sym, c.lx}, c.solvePool, c.numWorkers(), dst, nil, true, inner)
 }
