@@ -258,7 +258,9 @@ func (cs *contactSpace) solveReduced(yc []float64, tol float64, maxSteps int, ac
 }
 
 // contactDirection is direction for a solver with a contact space.
-func (s *Solver) contactDirection(du, r []float64, tol float64) error {
+// An interior residual (outside the contact equations) of norm at most
+// interiorBelow is left out: the forward solve is skipped.
+func (s *Solver) contactDirection(du, r []float64, tol, interiorBelow float64) error {
 	cs := s.cs
 	var couplings []coupling
 	if s.coupled {
@@ -273,18 +275,19 @@ func (s *Solver) contactDirection(du, r []float64, tol float64) error {
 			return err
 		}
 	}
+	balanced := cs.interiorNorm(r) <= interiorBelow
 	for {
 		changed, stiffness, ok := cs.prepare(couplings)
 		if !ok || cs.outside {
 			s.factorStale = true // the sparse factor's block may be older than l
 			return s.plainDirection(du, r, tol)
 		}
-		if !changed && !cs.dense && cs.interiorNorm(r) > s.interiorBelow {
+		if !changed && !cs.dense && !balanced {
 			return s.chol.SolveVecTo(du, r)
 		}
 		var steps int
 		var err error
-		if cs.interiorNorm(r) <= s.interiorBelow {
+		if balanced {
 			// The interior equations are in balance (they are linear and
 			// the last step solved them): the forward solve would leave
 			// the contact equations' part as it is.

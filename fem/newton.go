@@ -127,9 +127,6 @@ type Solver struct {
 	// pivoted last in the factorization (see contactspace.go); nil where
 	// the whole tangent changes.
 	cs *contactSpace
-	// interiorBelow: the norm of the residual over the interior (non-
-	// contact) equations below which a contact-space solve leaves it out.
-	interiorBelow float64
 	// unanalysed: the pattern has not been analysed yet (NewSolver).
 	unanalysed bool
 	// klin: the elements' part of the tangent where there is a contact
@@ -417,10 +414,8 @@ func (s *Solver) newton(fext []float64, limit int) (int, error) {
 		}
 		// An interior residual far below what convergence asks for is
 		// left out of a contact-space solve (see contactDirection).
-		s.interiorBelow = interiorShare * s.opt.Tolerance * ref
 		start := time.Now()
-		err := s.direction(du, r, forcing(rel))
-		s.interiorBelow = 0
+		err := s.direction(du, r, forcing(rel), interiorShare*s.opt.Tolerance*ref)
 		s.Timing.Solve += time.Since(start)
 		if err != nil {
 			s.thaw()
@@ -451,9 +446,9 @@ func (s *Solver) retreat(before, du []float64, step float64) {
 // Sliding friction adds couplings that no symmetric factorization holds,
 // so while points slide the solve is always GMRES, to the relative
 // tolerance tol.
-func (s *Solver) direction(du, r []float64, tol float64) error {
+func (s *Solver) direction(du, r []float64, tol, interiorBelow float64) error {
 	if s.cs != nil {
-		return s.contactDirection(du, r, tol)
+		return s.contactDirection(du, r, tol, interiorBelow)
 	}
 	return s.plainDirection(du, r, tol)
 }

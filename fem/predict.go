@@ -119,7 +119,7 @@ func (s *Solver) tangentResponse(dup []float64) ([]float64, error) {
 	du := make([]float64, s.m.nEq)
 	s.coupled, s.oldFactorFailed = true, false
 	start := time.Now()
-	err = s.direction(du, r, krylovTolerance)
+	err = s.direction(du, r, krylovTolerance, 0)
 	s.Timing.Solve += time.Since(start)
 	return du, err
 }

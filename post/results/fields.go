@@ -16,7 +16,7 @@ func writeFields(dir string, r *segment.Result) error {
 	if err := r.EvaluateFieldPoints(); err != nil {
 		return err
 	}
-	for _, st := range FieldStates(r) {
+	for _, st := range r.FieldStates() {
 		name := fmt.Sprintf("state_%03d.vtu", st.Row.Increment)
 		if err := writeState(filepath.Join(dir, "fields", name), st); err != nil {
 			return err
@@ -39,10 +39,6 @@ func writeState(path string, st segment.State) error {
 	cell = append(cell, historyFields(st.Plastic, st.Damage, len(m.Elements))...)
 	return post.WriteVTU(path, post.GridFromMesh(m), point, cell)
 }
-
-// FieldStates are the kept states of a run that get a field file
-// (segment.Result.FieldStates).
-func FieldStates(r *segment.Result) []segment.State { return r.FieldStates() }
 
 // historyFields are the cell means of equivalent plastic strain and damage
 // indicator over each element's integration points (zero where elastic).

@@ -85,7 +85,7 @@ func TestFieldStates(t *testing.T) {
 	res := coarseRun(t)
 	increments := func() []int {
 		var out []int
-		for _, st := range FieldStates(res) {
+		for _, st := range res.FieldStates() {
 			out = append(out, st.Row.Increment)
 		}
 		return out

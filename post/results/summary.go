@@ -66,7 +66,7 @@ func NewSummary(path string, r *segment.Result) Summary {
 			Factorizations: r.Timing.Factorizations, ContactFactorizations: r.Timing.ContactFactorizations,
 			KrylovSteps:     r.Timing.KrylovSteps,
 			PenaltyMPaPerMM: r.Segment.Penalty(),
-			PreloadSolves:   r.Preload.Iterations, FieldStatesWritten: len(FieldStates(r))},
+			PreloadSolves:   r.Preload.Iterations, FieldStatesWritten: len(r.FieldStates())},
 	}
 	if r.Failure != nil {
 		s.Failure = r.Failure.Error()
