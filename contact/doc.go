@@ -42,6 +42,12 @@
 // from the anchor, is returned onto |t_T| ≤ μ·p_N, and a sliding point's
 // anchor follows it. The tangent is consistent and not symmetric while
 // points slide; Settings.SymmetricTangent hands out its symmetric part.
+// One exception makes Newton's method robust, not faster near the
+// solution: a point whose slip direction turned round since the last
+// evaluation gets the sticking tangent for that evaluation (its force
+// stays the law's), since its traction swept the whole range ±μ·p_N
+// between two iterates; once the slip direction holds, the tangent is the
+// sliding one again.
 // Augment updates λ_N and λ_T as in Simo & Laursen (1992), "An augmented
 // Lagrangian treatment of contact problems involving friction".
 //

@@ -59,6 +59,7 @@ func (p *Pair) Evaluate(cur []Point, tangent bool, add func(dofs []int, f, k []f
 		p.before[i] = p.trial[i].status
 		// A sliding point whose slip turns round changes branch too.
 		turned := e.status == sliding && p.trial[i].status == sliding && e.sign != p.lastSign[i]
+		e.turned = turned
 		p.changed[i] = p.hasEvaluated && (e.status != p.trial[i].status || turned)
 		if p.changed[i] {
 			p.noteChange(i, e.status, e.sign)
@@ -355,8 +356,15 @@ func (p *Pair) addTangential(a *accumulator, w float64, e *pointEval) {
 	if a.k == nil {
 		return
 	}
+	// A point whose slip turned round since the last evaluation is
+	// linearised as sticking: its traction has crossed the whole range
+	// ±μ·p_N between two iterates, so the solution most likely holds it
+	// stuck in between, and a sliding tangent (no tangential stiffness)
+	// would send the next step as far the other way. Whole faces sliding
+	// to and fro from one iteration to the next stalled the preload of
+	// finely meshed joints.
 	switch {
-	case e.status == sticking:
+	case e.status == sticking || e.turned:
 		outer(a.k, w*p.set.StickPenalty, a.gs, a.gs)
 	case !p.set.NoSlidingStiffness:
 		outer(a.k, -w*p.set.Friction*e.sign*p.set.Penalty, a.gs, a.gg)

@@ -130,3 +130,40 @@ func TestFrictionAugment(t *testing.T) {
 	f.check(t, "slide, same place", 0.2, -3)
 	f.check(t, "slide, on", 0.3, -6)
 }
+
+// A sliding point whose slip turns round from one evaluation to the next
+// is linearised as sticking for that evaluation (tangential stiffness
+// ε_T over its area), while its force stays the law's, μ·p_N in the new
+// direction; evaluated again in the same direction it has the sliding
+// tangent, with no tangential stiffness. Regularised Coulomb friction
+// (Wriggers, Computational Contact Mechanics, 2006): the traction of a
+// sliding point does not depend on its slip.
+func TestFrictionTurnedSlipStiffens(t *testing.T) {
+	const epsT, limit, area = 100.0, 3.0, 10 * 2.0
+	f := newFrictionFixture(t)
+	slaveX := func(k []float64) float64 {
+		n := 2 * len(f.at(0))
+		sum := 0.0
+		for _, a := range f.m.slaveNodes() {
+			for _, b := range f.m.slaveNodes() {
+				sum += k[2*a*n+2*b]
+			}
+		}
+		return sum
+	}
+	steps := []struct {
+		what      string
+		ux, stiff float64
+	}{
+		{"sliding towards +x", 0.5, 0},
+		{"slip turned round", -0.5, epsT * area},
+		{"sliding on towards −x", -0.6, 0},
+	}
+	for _, s := range steps {
+		a := assemble(t, f.p, f.at(s.ux), true)
+		if got := slaveX(a.k); math.Abs(got-s.stiff) > 1e-9*epsT*area {
+			t.Errorf("%s: tangential stiffness of the slave %g N/mm, want %g", s.what, got, s.stiff)
+		}
+		f.check(t, s.what, s.ux, -math.Copysign(limit, s.ux))
+	}
+}

@@ -156,6 +156,9 @@ type pointEval struct {
 	tT     float64    // tangential traction, MPa
 	sign   float64    // slip direction when sliding
 	keep   location   // anchor to keep when accepted
+	// turned: sliding, against the direction of the point's last
+	// evaluation; its tangent is then the sticking one (see Evaluate).
+	turned bool
 }
 
 // frictional reports whether the tangential terms apply to the point.
