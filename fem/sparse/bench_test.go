@@ -205,3 +205,25 @@ func BenchmarkRound(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkMulVec20k is the product of the 20k matrix with a vector, as
+// GMRES takes it at every step: split over two goroutines (split) and on
+// one (columns).
+func BenchmarkMulVec20k(b *testing.B) {
+	m := benchMatrix(b, "20k")
+	x, dst := make([]float64, m.n), make([]float64, m.n)
+	for i := range x {
+		x[i] = 1 + float64(i%7)
+	}
+	b.Run("split", func(b *testing.B) {
+		for i := 0; i < b.N; i++ {
+			m.MulVecTo(dst, x)
+		}
+	})
+	b.Run("columns", func(b *testing.B) {
+		for i := 0; i < b.N; i++ {
+			clear(dst)
+			m.mulColumns(dst, x, 0, m.n)
+		}
+	})
+}

@@ -225,20 +225,73 @@ func (m *Matrix) MulVecTo(dst, x []float64) {
 		return
 	}
 	clear(dst)
-	for j := 0; j < m.n; j++ {
+	nnz := m.colPtr[m.n]
+	if nnz < splitProductNNZ {
+		m.mulColumns(dst, x, 0, m.n)
+		return
+	}
+	// Two halves of the columns by entries, on two goroutines. The second
+	// half's products reach only rows from its first column on; it sums
+	// them apart and they are added after. The split and the order of the
+	// sums do not depend on the cores, so the product is the same on
+	// every machine.
+	mid := m.splitColumn(nnz / 2)
+	tail := make([]float64, m.n-mid)
+	done := make(chan struct{})
+	go func() {
+		m.mulColumnsFrom(tail, x, mid, m.n, mid)
+		close(done)
+	}()
+	m.mulColumns(dst, x, 0, mid)
+	<-done
+	for i, v := range tail {
+		dst[mid+i] += v
+	}
+}
+
+// splitProductNNZ: below this many entries a product runs on one
+// goroutine (a goroutine costs about a microsecond, the product of 2¹⁷
+// entries some 150 µs).
+const splitProductNNZ = 1 << 17
+
+// splitColumn returns the first column at or after which half the entries
+// begin.
+func (m *Matrix) splitColumn(half int) int {
+	lo, hi := 0, m.n
+	for lo < hi {
+		c := (lo + hi) / 2
+		if m.colPtr[c] < half {
+			lo = c + 1
+		} else {
+			hi = c
+		}
+	}
+	return lo
+}
+
+// mulColumns adds the products of columns [from, to) of the symmetric
+// matrix with x to dst.
+func (m *Matrix) mulColumns(dst, x []float64, from, to int) {
+	m.mulColumnsFrom(dst, x, from, to, 0)
+}
+
+// mulColumnsFrom is mulColumns into dst indexed from row base on (every
+// row the columns reach is at least base).
+func (m *Matrix) mulColumnsFrom(dst, x []float64, from, to, base int) {
+	for j := from; j < to; j++ {
 		xj := x[j]
 		var s float64
 		for p := m.colPtr[j]; p < m.colPtr[j+1]; p++ {
-			i := m.rowIdx[p]
+			i := int(m.rowIdx[p])
 			v := m.val[p]
-			if int(i) == j {
+			if i == j {
 				s += v * xj
 				continue
 			}
-			dst[i] += v * xj
+			dst[i-base] += v * xj
 			s += v * x[i]
 		}
-		dst[j] += s
+		dst[j-base] += s
 	}
 }
 

@@ -199,3 +199,22 @@ func TestMulVecCopyDiagonal(t *testing.T) {
 		t.Error("Zero changed the pattern or left values")
 	}
 }
+
+// A product large enough to be split over two goroutines equals the
+// product taken column by column on one, to rounding.
+func TestMulVecSplit(t *testing.T) {
+	rnd := rand.New(rand.NewPCG(7, 8))
+	m := randomSPD(30000, 6, rnd)
+	if m.NNZ() < splitProductNNZ {
+		t.Fatalf("%d entries: too few to split", m.NNZ())
+	}
+	x := randVec(m.n, rnd)
+	got, want := make([]float64, m.n), make([]float64, m.n)
+	m.MulVecTo(got, x)
+	m.mulColumns(want, x, 0, m.n)
+	for i := range want {
+		if math.Abs(got[i]-want[i]) > 1e-13*(math.Abs(want[i])+1) {
+			t.Fatalf("row %d: %g split, %g on one goroutine", i, got[i], want[i])
+		}
+	}
+}
