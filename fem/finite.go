@@ -143,67 +143,69 @@ func (FiniteStrain) point(c material.Condition, g *PointGeometry, k *kernelWork,
 	if axi {
 		hoop = (1 + h.yy) / g.X
 	}
-	var dm material.Mat4
-	hoopGeo := 0.0 // w·S_yy/x², the hoop part of the geometric stiffness
-	if keep {
-		dm = k.log.tangent(&k.d, k.stress, axi)
-		for i := range dm {
-			for j := range dm[i] {
-				dm[i][j] *= w
-			}
-		}
-		if axi {
-			hoopGeo = s2 / (g.X * g.X)
-		}
-	}
-	// The in-plane rows of w·dS/dE_GL in scalars: an array's elements are
-	// loaded from memory at every use.
-	d00, d01, d03 := dm[0][0], dm[0][1], dm[0][3]
-	d10, d11, d13 := dm[1][0], dm[1][1], dm[1][3]
-	d30, d31, d33 := dm[3][0], dm[3][1], dm[3][3]
 	n := len(g.N)
 	fe = fe[:2*n]
+	cols := k.finite[:n]
 	p := k.kept
-	for a := 0; a < n; a++ {
+	for a := range cols {
 		dx, dz := g.DNdx[a], g.DNdz[a]
-		col := &k.finite[a][p]
+		col := &cols[a][p]
 		x0, x1, x3 := fxx*dx, h.xz*dz, fxx*dz+h.xz*dx
 		z0, z1, z3 := h.zx*dx, fzz*dz, h.zx*dz+fzz*dx
 		col.b.x = [4]float64{x0, x1, 0, x3}
 		col.b.z = [4]float64{z0, z1, 0, z3}
 		fx := s0*x0 + s1*x1 + s3*x3
-		x2 := 0.0
 		if axi {
-			x2 = hoop * g.N[a]
+			x2 := hoop * g.N[a]
 			col.b.x[2] = x2
 			fx += s2 * x2
 		}
 		fe[2*a] += fx
 		fe[2*a+1] += s0*z0 + s1*z1 + s3*z3
-		if !keep {
-			continue
+		if keep {
+			col.dx, col.dz = dx, dz
+			col.gx, col.gz = s0*dx+s3*dz, s1*dz+s3*dx
 		}
-		db := &col.db
+	}
+	if !keep {
+		return
+	}
+	// w·D·B in a loop of its own with the entries of w·dS/dE_GL it needs
+	// in scalars: with the force's terms too they would not fit the
+	// registers, and an array's elements are loaded at every use.
+	dm := k.log.tangent(&k.d, k.stress, axi)
+	d00, d01, d03 := dm[0][0]*w, dm[0][1]*w, dm[0][3]*w
+	d10, d11, d13 := dm[1][0]*w, dm[1][1]*w, dm[1][3]*w
+	d30, d31, d33 := dm[3][0]*w, dm[3][1]*w, dm[3][3]*w
+	for a := range cols {
+		col := &cols[a][p]
+		b, db := &col.b, &col.db
+		x0, x1, x3 := b.x[0], b.x[1], b.x[3]
 		db.x[0] = d00*x0 + d01*x1 + d03*x3
 		db.x[1] = d10*x0 + d11*x1 + d13*x3
 		db.x[3] = d30*x0 + d31*x1 + d33*x3
+		z0, z1, z3 := b.z[0], b.z[1], b.z[3]
 		db.z[0] = d00*z0 + d01*z1 + d03*z3
 		db.z[1] = d10*z0 + d11*z1 + d13*z3
 		db.z[3] = d30*z0 + d31*z1 + d33*z3
-		if axi {
-			db.x[0] += dm[0][2] * x2
-			db.x[1] += dm[1][2] * x2
-			db.x[3] += dm[3][2] * x2
-			db.x[2] = dm[2][0]*x0 + dm[2][1]*x1 + dm[2][2]*x2 + dm[2][3]*x3
-			db.z[2] = dm[2][0]*z0 + dm[2][1]*z1 + dm[2][3]*z3 // B_yy is 0 at u_z
+	}
+	if axi {
+		hoopGeo := s2 / (g.X * g.X) // w·S_yy/x², the hoop part of the geometric stiffness
+		d02, d12, d32 := dm[0][2]*w, dm[1][2]*w, dm[3][2]*w
+		d20, d21, d22, d23 := dm[2][0]*w, dm[2][1]*w, dm[2][2]*w, dm[2][3]*w
+		for a := range cols {
+			col := &cols[a][p]
+			b, db := &col.b, &col.db
+			x2 := b.x[2]
+			db.x[0] += d02 * x2
+			db.x[1] += d12 * x2
+			db.x[3] += d32 * x2
+			db.x[2] = d20*b.x[0] + d21*b.x[1] + d22*x2 + d23*b.x[3]
+			db.z[2] = d20*b.z[0] + d21*b.z[1] + d23*b.z[3] // B_yy is 0 at u_z
 			col.n, col.hoop = g.N[a], hoopGeo*g.N[a]
 		}
-		col.dx, col.dz = dx, dz
-		col.gx, col.gz = s0*dx+s3*dz, s1*dz+s3*dx
 	}
-	if keep {
-		k.kept++
-	}
+	k.kept++
 }
 
 // pairs of the total-Lagrangian B: the 2×2 block of nodes a ≤ b sums

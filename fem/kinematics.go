@@ -124,54 +124,55 @@ func (SmallStrain) point(c material.Condition, g *PointGeometry, k *kernelWork, 
 	axi := c == material.Axisymmetric
 	stress := &k.stress
 	s0, s1, s2, s3 := w*stress[0], w*stress[1], w*stress[2], w*stress[3]
-	var wd material.Mat4
-	if keep {
-		for i := range wd {
-			for j := range wd[i] {
-				wd[i][j] = w * k.d[i][j]
-			}
-		}
-	}
-	// The in-plane rows of w·D in scalars: an array's elements are loaded
-	// from memory at every use.
-	d00, d01, d03 := wd[0][0], wd[0][1], wd[0][3]
-	d10, d11, d13 := wd[1][0], wd[1][1], wd[1][3]
-	d30, d31, d33 := wd[3][0], wd[3][1], wd[3][3]
 	n := len(g.N)
 	fe = fe[:2*n]
+	cols := k.small[:n]
 	p := k.kept
-	for a := 0; a < n; a++ {
+	for a := range cols {
 		dx, dz := g.DNdx[a], g.DNdz[a]
-		col := &k.small[a][p]
+		col := &cols[a][p]
 		col.dx, col.dz = dx, dz
 		fx := s0*dx + s3*dz
-		r := 0.0
 		if axi {
-			r = g.N[a] / g.X
+			r := g.N[a] / g.X
 			col.r = r
 			fx += s2 * r
 		}
 		fe[2*a] += fx
 		fe[2*a+1] += s1*dz + s3*dx
-		if !keep {
-			continue
-		}
-		// w·D·B, rows xx, zz, xz (and yy in axisymmetry).
-		db := &col.db
+	}
+	if !keep {
+		return
+	}
+	// w·D·B, rows xx, zz, xz (and yy in axisymmetry), in a loop of its
+	// own with the entries of w·D it needs in scalars: with the force's
+	// terms too they would not fit the registers, and an array's elements
+	// are loaded at every use.
+	d := &k.d
+	d00, d01, d03 := w*d[0][0], w*d[0][1], w*d[0][3]
+	d10, d11, d13 := w*d[1][0], w*d[1][1], w*d[1][3]
+	d30, d31, d33 := w*d[3][0], w*d[3][1], w*d[3][3]
+	for a := range cols {
+		col := &cols[a][p]
+		dx, dz, db := col.dx, col.dz, &col.db
 		db.x[0], db.z[0] = d00*dx+d03*dz, d01*dz+d03*dx
 		db.x[1], db.z[1] = d10*dx+d13*dz, d11*dz+d13*dx
 		db.x[3], db.z[3] = d30*dx+d33*dz, d31*dz+d33*dx
-		if axi {
-			db.x[0] += wd[0][2] * r
-			db.x[1] += wd[1][2] * r
-			db.x[3] += wd[3][2] * r
-			db.x[2] = wd[2][0]*dx + wd[2][3]*dz + wd[2][2]*r
-			db.z[2] = wd[2][1]*dz + wd[2][3]*dx
+	}
+	if axi {
+		d02, d12, d32 := w*d[0][2], w*d[1][2], w*d[3][2]
+		d20, d21, d22, d23 := w*d[2][0], w*d[2][1], w*d[2][2], w*d[2][3]
+		for a := range cols {
+			col := &cols[a][p]
+			dx, dz, r, db := col.dx, col.dz, col.r, &col.db
+			db.x[0] += d02 * r
+			db.x[1] += d12 * r
+			db.x[3] += d32 * r
+			db.x[2] = d20*dx + d23*dz + d22*r
+			db.z[2] = d21*dz + d23*dx
 		}
 	}
-	if keep {
-		k.kept++
-	}
+	k.kept++
 }
 
 // pairs of the small-strain B: the 2×2 block of nodes a ≤ b sums
