@@ -128,7 +128,7 @@ func BenchmarkSolveLinear(b *testing.B) {
 // in plane stress, 3×3 points, geometry cached, at the states of
 // BenchmarkElementPoint:
 //
-//	finite strain (FiniteStrain.strain and accumulate, logStrain):
+//	finite strain (FiniteStrain.strain, point and pairs, logStrain):
 //	  F − I (deformationAt)                                     80
 //	  validity 6, Green–Lagrange strain 18                      24
 //	  logStrain.evaluate without ψ: m, a, b, q, 1/det 9, ℓ and its
@@ -140,17 +140,18 @@ func BenchmarkSolveLinear(b *testing.B) {
 //	  pull-back 16, w·S 4, F diagonal 2                         22
 //	  B and internal force, 22 a node                          176
 //	  tangent: D·J 45, Jᵀ·D·J 30, curvature 65, sum 6,
-//	    times w 16                                             162
+//	    times w (the 9 in-plane entries B uses) 9              155
 //	  w·D·B, 8 nodes × 2 columns × 3 rows × 5                  240
 //	  node-pair pass (w·BᵀDB and the geometric stiffness):
 //	    7 a node, 23 a diagonal block, 29 an off-diagonal one
 //	    (8 × 7 + 8 × 23 + 28 × 29)                            1052
 //	  eigenstrain subtraction                                    4
-//	  kernel total                                            1968
+//	  kernel total                                            1961
 //
-//	small strain (SmallStrain.strain and accumulate):
-//	  strain 64, eigenstrain 4, w·σ 4, internal force 64, w·D 16,
-//	  w·D·B 144, node pairs (8 × 12 + 28 × 16) 544            840
+//	small strain (SmallStrain.strain, point and pairs):
+//	  strain 64, eigenstrain 4, w·σ 4, internal force 64, w·D (the
+//	  9 in-plane entries B uses) 9, w·D·B 144, node pairs
+//	  (8 × 12 + 28 × 16) 544                                   833
 //
 //	laws (package material), per point:
 //	  Hooke's law in plane stress (Tangent and the product)     40
@@ -167,8 +168,8 @@ func BenchmarkSolveLinear(b *testing.B) {
 //	  (the previous return, Newton on q − σ_y: 470, with 5
 //	  evaluations of 52)
 const (
-	flopsFiniteKernel = 1968
-	flopsSmallKernel  = 840
+	flopsFiniteKernel = 1961
+	flopsSmallKernel  = 833
 	flopsHooke        = 40
 	flopsJ2Yielding   = 256
 )

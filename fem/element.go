@@ -15,7 +15,7 @@ type scratch struct {
 	ke                       [maxElementDofs * maxElementDofs]float64
 	geo                      PointGeometry
 	jac                      [4]float64 // J11, J12, J21, J22 of the last point
-	point                    pointWork
+	kernel                   kernelWork
 }
 
 func newScratch() *scratch { return &scratch{} }
@@ -134,8 +134,10 @@ func (e *PointError) Unwrap() error { return e.Err }
 // elementResponse computes the internal force fe and, if ke != nil, the
 // tangent of element e at element displacements ue. If pts is not nil it
 // receives one PointResult per integration point. It allocates nothing:
-// its working memory is s, the calling worker's. The points add to the
-// upper triangle of ke, mirrored once at the end.
+// its working memory is s, the calling worker's. The points keep their
+// parts of the tangent in s, summed over the points node pair by node
+// pair into the upper triangle of ke at the end (Kinematics.pairs), and
+// the triangle is mirrored.
 func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, s *scratch) error {
 	for i := range fe {
 		fe[i] = 0
@@ -150,12 +152,14 @@ func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, 
 	law := m.laws[region]
 	eigen := m.eigen[region]
 	spring := m.foundation[region]
+	k := &s.kernel
+	k.kept = 0
 	for ip, p := range m.rule {
 		g, err := m.geometryAt(e, ip, p, s)
 		if err != nil {
 			return err
 		}
-		strain := m.kin.strain(m.opt.Condition, g, ue, &s.point)
+		strain := m.kin.strain(m.opt.Condition, g, ue, k)
 		elastic := strain
 		for c := range elastic {
 			elastic[c] -= eigen[c]
@@ -164,20 +168,19 @@ func (m *Model) elementResponse(e int, ue, fe, ke []float64, pts []PointResult, 
 		// The law writes the stress and the tangent into s: a local passed
 		// to the interface method by address would be allocated at every
 		// point.
-		d := &s.point.d
-		if err := law.Respond(m.opt.Condition, elastic, committed, trial, &s.point.stress, d); err != nil {
+		if err := law.Respond(m.opt.Condition, elastic, committed, trial, &k.stress, &k.d); err != nil {
 			return &PointError{Element: e, Point: ip, Err: err}
 		}
-		stress := s.point.stress
-		m.kin.accumulate(m.opt.Condition, g, &s.point, stress, d, fe, ke)
+		m.kin.point(m.opt.Condition, g, k, fe, ke != nil)
 		if spring != [2]float64{} {
 			addFoundation(g, spring, ue, fe, ke)
 		}
 		if pts != nil {
-			pts[ip] = PointResult{X: g.X, Z: g.Z, Strain: strain, Stress: stress, History: trial}
+			pts[ip] = PointResult{X: g.X, Z: g.Z, Strain: strain, Stress: k.stress, History: trial}
 		}
 	}
 	if ke != nil {
+		m.kin.pairs(m.opt.Condition, k, len(ue)/2, ke)
 		mirrorUpper(ke, len(ue))
 	}
 	return nil

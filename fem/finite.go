@@ -111,7 +111,7 @@ func invalidStrain() material.Vec4 {
 	return material.Vec4{n, n, n, n}
 }
 
-func (FiniteStrain) strain(c material.Condition, g *PointGeometry, u []float64, k *pointWork) material.Vec4 {
+func (FiniteStrain) strain(c material.Condition, g *PointGeometry, u []float64, k *kernelWork) material.Vec4 {
 	k.h = deformationAt(c, g, u)
 	k.valid = k.h.valid()
 	if !k.valid {
@@ -121,14 +121,12 @@ func (FiniteStrain) strain(c material.Condition, g *PointGeometry, u []float64, 
 	return k.log.e
 }
 
-// accumulate of the total-Lagrangian B at the deformation strain found
+// point of the total-Lagrangian B at the deformation strain found
 // (δE_GL = B·δu), with the law's stress T pulled back to the second
 // Piola–Kirchhoff stress S and its tangent to dS/dE_GL through the
-// derivatives of the logarithm that strain kept. The geometric stiffness
-// w·Σ_k S_k ∂²E_GL,k/∂u∂u, the same scalar in the x and the z block of a
-// node pair (and a hoop term in the x block), is added in the same pass
-// over the node pairs as w·BᵀDB.
-func (FiniteStrain) accumulate(c material.Condition, g *PointGeometry, k *pointWork, stress material.Vec4, d *material.Mat4, fe, ke []float64) {
+// derivatives of the logarithm that strain kept. An inverted point makes
+// the force NaN and keeps nothing.
+func (FiniteStrain) point(c material.Condition, g *PointGeometry, k *kernelWork, fe []float64, keep bool) {
 	if !k.valid {
 		for j := range fe {
 			fe[j] = math.NaN()
@@ -138,7 +136,7 @@ func (FiniteStrain) accumulate(c material.Condition, g *PointGeometry, k *pointW
 	h := &k.h
 	w := g.Weight
 	axi := c == material.Axisymmetric
-	s := k.log.pullBack(stress)
+	s := k.log.pullBack(k.stress)
 	s0, s1, s2, s3 := w*s[0], w*s[1], w*s[2], w*s[3]
 	fxx, fzz := 1+h.xx, 1+h.zz
 	hoop := 0.0 // F_yy/x: the yy row of B is hoop·N at the x dofs
@@ -147,75 +145,139 @@ func (FiniteStrain) accumulate(c material.Condition, g *PointGeometry, k *pointW
 	}
 	n := len(g.N)
 	fe = fe[:2*n]
-	for a := 0; a < n; a++ {
+	cols := k.finite[:n]
+	p := k.kept
+	for a := range cols {
 		dx, dz := g.DNdx[a], g.DNdz[a]
-		b := &k.b[a]
-		b.x = [4]float64{fxx * dx, h.xz * dz, 0, fxx*dz + h.xz*dx}
-		b.z = [4]float64{h.zx * dx, fzz * dz, 0, h.zx*dz + fzz*dx}
-		fx := s0*b.x[0] + s1*b.x[1] + s3*b.x[3]
+		col := &cols[a][p]
+		x0, x1, x3 := fxx*dx, h.xz*dz, fxx*dz+h.xz*dx
+		z0, z1, z3 := h.zx*dx, fzz*dz, h.zx*dz+fzz*dx
+		col.b.x = [4]float64{x0, x1, 0, x3}
+		col.b.z = [4]float64{z0, z1, 0, z3}
+		fx := s0*x0 + s1*x1 + s3*x3
 		if axi {
-			b.x[2] = hoop * g.N[a]
-			fx += s2 * b.x[2]
+			x2 := hoop * g.N[a]
+			col.b.x[2] = x2
+			fx += s2 * x2
 		}
 		fe[2*a] += fx
-		fe[2*a+1] += s0*b.z[0] + s1*b.z[1] + s3*b.z[3]
+		fe[2*a+1] += s0*z0 + s1*z1 + s3*z3
+		if keep {
+			col.dx, col.dz = dx, dz
+			col.gx, col.gz = s0*dx+s3*dz, s1*dz+s3*dx
+		}
 	}
-	if ke == nil {
+	if !keep {
 		return
 	}
-	dm := k.log.tangent(d, stress, axi)
-	for i := range dm {
-		for j := range dm[i] {
-			dm[i][j] *= w
-		}
+	// w·D·B in a loop of its own with the entries of w·dS/dE_GL it needs
+	// in scalars: with the force's terms too they would not fit the
+	// registers, and an array's elements are loaded at every use.
+	dm := k.log.tangent(&k.d, k.stress, axi)
+	d00, d01, d03 := dm[0][0]*w, dm[0][1]*w, dm[0][3]*w
+	d10, d11, d13 := dm[1][0]*w, dm[1][1]*w, dm[1][3]*w
+	d30, d31, d33 := dm[3][0]*w, dm[3][1]*w, dm[3][3]*w
+	for a := range cols {
+		col := &cols[a][p]
+		b, db := &col.b, &col.db
+		x0, x1, x3 := b.x[0], b.x[1], b.x[3]
+		db.x[0] = d00*x0 + d01*x1 + d03*x3
+		db.x[1] = d10*x0 + d11*x1 + d13*x3
+		db.x[3] = d30*x0 + d31*x1 + d33*x3
+		z0, z1, z3 := b.z[0], b.z[1], b.z[3]
+		db.z[0] = d00*z0 + d01*z1 + d03*z3
+		db.z[1] = d10*z0 + d11*z1 + d13*z3
+		db.z[3] = d30*z0 + d31*z1 + d33*z3
 	}
-	for a := 0; a < n; a++ {
-		b, db := &k.b[a], &k.db[a]
-		for col := 0; col < 2; col++ {
-			x, y := &b.x, &db.x
-			if col == 1 {
-				x, y = &b.z, &db.z
-			}
-			y[0] = dm[0][0]*x[0] + dm[0][1]*x[1] + dm[0][3]*x[3]
-			y[1] = dm[1][0]*x[0] + dm[1][1]*x[1] + dm[1][3]*x[3]
-			y[3] = dm[3][0]*x[0] + dm[3][1]*x[1] + dm[3][3]*x[3]
-			if axi {
-				y[0] += dm[0][2] * x[2]
-				y[1] += dm[1][2] * x[2]
-				y[3] += dm[3][2] * x[2]
-				y[2] = dm[2][0]*x[0] + dm[2][1]*x[1] + dm[2][2]*x[2] + dm[2][3]*x[3]
-			}
-		}
-	}
-	hoopGeo := 0.0 // w·S_yy/x², the hoop part of the geometric stiffness
 	if axi {
-		hoopGeo = s2 / (g.X * g.X)
+		hoopGeo := s2 / (g.X * g.X) // w·S_yy/x², the hoop part of the geometric stiffness
+		d02, d12, d32 := dm[0][2]*w, dm[1][2]*w, dm[3][2]*w
+		d20, d21, d22, d23 := dm[2][0]*w, dm[2][1]*w, dm[2][2]*w, dm[2][3]*w
+		for a := range cols {
+			col := &cols[a][p]
+			b, db := &col.b, &col.db
+			x2 := b.x[2]
+			db.x[0] += d02 * x2
+			db.x[1] += d12 * x2
+			db.x[3] += d32 * x2
+			db.x[2] = d20*b.x[0] + d21*b.x[1] + d22*x2 + d23*b.x[3]
+			db.z[2] = d20*b.z[0] + d21*b.z[1] + d23*b.z[3] // B_yy is 0 at u_z
+			col.n, col.hoop = g.N[a], hoopGeo*g.N[a]
+		}
+	}
+	k.kept++
+}
+
+// pairs of the total-Lagrangian B: the 2×2 block of nodes a ≤ b sums
+// B_aᵀ·(w·D·B)_b over the points in four scalars, with the geometric
+// stiffness w·Σ_k S_k ∂²E_GL,k/∂u∂u, the same scalar ∇N_a·(w·S)·∇N_b in
+// its xx and zz entries.
+func (FiniteStrain) pairs(c material.Condition, k *kernelWork, n int, ke []float64) {
+	if c == material.Axisymmetric {
+		finitePairsAxisymmetric(k, n, ke)
+		return
 	}
 	nd := 2 * n
 	for a := 0; a < n; a++ {
-		ba := &k.b[a]
-		ax0, ax1, ax2, ax3 := ba.x[0], ba.x[1], ba.x[2], ba.x[3]
-		az0, az1, az3 := ba.z[0], ba.z[1], ba.z[3]
-		dxa, dza := g.DNdx[a], g.DNdz[a]
-		gx, gz := s0*dxa+s3*dza, s1*dza+s3*dxa
-		hoopA := hoopGeo * g.N[a]
+		ca := k.finite[a][:k.kept]
 		rx, rz := ke[2*a*nd:(2*a+1)*nd], ke[(2*a+1)*nd:(2*a+2)*nd]
-		for b := a; b < n; b++ {
-			db := &k.db[b]
-			geo := gx*g.DNdx[b] + gz*g.DNdz[b]
-			xx := ax0*db.x[0] + ax1*db.x[1] + ax3*db.x[3] + geo
-			xz := ax0*db.z[0] + ax1*db.z[1] + ax3*db.z[3]
-			if axi {
-				xx += ax2*db.x[2] + hoopA*g.N[b]
-				xz += ax2 * db.z[2]
-			}
+		// The diagonal block: its zx entry is in the lower triangle.
+		xx, xz, zz := rx[2*a], rx[2*a+1], rz[2*a+1]
+		for p := range ca {
+			q := &ca[p]
+			geo := q.gx*q.dx + q.gz*q.dz
+			xx += q.b.x[0]*q.db.x[0] + q.b.x[1]*q.db.x[1] + q.b.x[3]*q.db.x[3] + geo
+			xz += q.b.x[0]*q.db.z[0] + q.b.x[1]*q.db.z[1] + q.b.x[3]*q.db.z[3]
+			zz += q.b.z[0]*q.db.z[0] + q.b.z[1]*q.db.z[1] + q.b.z[3]*q.db.z[3] + geo
+		}
+		rx[2*a], rx[2*a+1], rz[2*a+1] = xx, xz, zz
+		for b := a + 1; b < n; b++ {
+			cb := k.finite[b][:len(ca)]
 			px, pz := rx[2*b:2*b+2], rz[2*b:2*b+2]
-			px[0] += xx
-			px[1] += xz
-			if b != a { // the zx entry of a diagonal block is in the lower triangle
-				pz[0] += az0*db.x[0] + az1*db.x[1] + az3*db.x[3]
+			xx, xz, zx, zz := px[0], px[1], pz[0], pz[1]
+			for p := range ca {
+				qa, qb := &ca[p], &cb[p]
+				geo := qa.gx*qb.dx + qa.gz*qb.dz
+				xx += qa.b.x[0]*qb.db.x[0] + qa.b.x[1]*qb.db.x[1] + qa.b.x[3]*qb.db.x[3] + geo
+				xz += qa.b.x[0]*qb.db.z[0] + qa.b.x[1]*qb.db.z[1] + qa.b.x[3]*qb.db.z[3]
+				zx += qa.b.z[0]*qb.db.x[0] + qa.b.z[1]*qb.db.x[1] + qa.b.z[3]*qb.db.x[3]
+				zz += qa.b.z[0]*qb.db.z[0] + qa.b.z[1]*qb.db.z[1] + qa.b.z[3]*qb.db.z[3] + geo
 			}
-			pz[1] += az0*db.z[0] + az1*db.z[1] + az3*db.z[3] + geo
+			px[0], px[1], pz[0], pz[1] = xx, xz, zx, zz
+		}
+	}
+}
+
+// finitePairsAxisymmetric is pairs of FiniteStrain with the hoop row of B
+// and the hoop part of the geometric stiffness, both at the x dofs; kept
+// apart so that the plane conditions' inner loop has no branch.
+func finitePairsAxisymmetric(k *kernelWork, n int, ke []float64) {
+	nd := 2 * n
+	for a := 0; a < n; a++ {
+		ca := k.finite[a][:k.kept]
+		rx, rz := ke[2*a*nd:(2*a+1)*nd], ke[(2*a+1)*nd:(2*a+2)*nd]
+		xx, xz, zz := rx[2*a], rx[2*a+1], rz[2*a+1]
+		for p := range ca {
+			q := &ca[p]
+			geo := q.gx*q.dx + q.gz*q.dz
+			xx += q.b.x[0]*q.db.x[0] + q.b.x[1]*q.db.x[1] + q.b.x[3]*q.db.x[3] + geo + (q.b.x[2]*q.db.x[2] + q.hoop*q.n)
+			xz += q.b.x[0]*q.db.z[0] + q.b.x[1]*q.db.z[1] + q.b.x[3]*q.db.z[3] + q.b.x[2]*q.db.z[2]
+			zz += q.b.z[0]*q.db.z[0] + q.b.z[1]*q.db.z[1] + q.b.z[3]*q.db.z[3] + geo
+		}
+		rx[2*a], rx[2*a+1], rz[2*a+1] = xx, xz, zz
+		for b := a + 1; b < n; b++ {
+			cb := k.finite[b][:len(ca)]
+			px, pz := rx[2*b:2*b+2], rz[2*b:2*b+2]
+			xx, xz, zx, zz := px[0], px[1], pz[0], pz[1]
+			for p := range ca {
+				qa, qb := &ca[p], &cb[p]
+				geo := qa.gx*qb.dx + qa.gz*qb.dz
+				xx += qa.b.x[0]*qb.db.x[0] + qa.b.x[1]*qb.db.x[1] + qa.b.x[3]*qb.db.x[3] + geo + (qa.b.x[2]*qb.db.x[2] + qa.hoop*qb.n)
+				xz += qa.b.x[0]*qb.db.z[0] + qa.b.x[1]*qb.db.z[1] + qa.b.x[3]*qb.db.z[3] + qa.b.x[2]*qb.db.z[2]
+				zx += qa.b.z[0]*qb.db.x[0] + qa.b.z[1]*qb.db.x[1] + qa.b.z[3]*qb.db.x[3]
+				zz += qa.b.z[0]*qb.db.z[0] + qa.b.z[1]*qb.db.z[1] + qa.b.z[3]*qb.db.z[3] + geo
+			}
+			px[0], px[1], pz[0], pz[1] = xx, xz, zx, zz
 		}
 	}
 }
