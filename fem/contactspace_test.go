@@ -117,8 +117,14 @@ func TestContactDirectionIsExact(t *testing.T) {
 	if err := s.ensurePattern(); err != nil {
 		t.Fatal(err)
 	}
-	if err := s.assemble(true); err != nil {
-		t.Fatal(err)
+	// Assembled twice: at the first evaluation after the push the sliding
+	// points' slip may turn round (it stands at the Coulomb limit), and a
+	// point whose slip turned is linearised as sticking, without a
+	// coupling (package contact).
+	for range 2 {
+		if err := s.assemble(true); err != nil {
+			t.Fatal(err)
+		}
 	}
 	s.coupled = true
 	if len(s.couplings) == 0 {
