@@ -114,6 +114,10 @@ type assembler struct {
 	// expanded); a tangent assembly then also adds K·dup, the linear
 	// change of the internal forces, into kdup (all dofs, node level).
 	dup, kdup []float64
+	// slots: where each element's block goes in the values of slotsOf,
+	// the last matrix assembled into (found once per pattern).
+	slots   []sparse.Slots
+	slotsOf *sparse.Matrix
 }
 
 func newAssembler(m *Model) *assembler {
@@ -193,9 +197,29 @@ func (a *assembler) assemble(u, fint []float64, k *sparse.Matrix, pts [][]PointR
 		if em.t != nil {
 			ke = a.transform(em, ke)
 		}
-		if err := k.AddDense(a.eqIdx[e], ke); err != nil {
-			return fmt.Errorf("fem: element %d: %w", e, err)
+		if err := a.addElement(k, e, ke); err != nil {
+			return err
 		}
+	}
+	return nil
+}
+
+// addElement adds element e's block ke (in equation space) to k at the
+// element's slots, found at the first assembly into k.
+func (a *assembler) addElement(k *sparse.Matrix, e int, ke []float64) error {
+	if a.slotsOf != k {
+		a.slots, a.slotsOf = make([]sparse.Slots, len(a.eqIdx)), nil
+		for i, idx := range a.eqIdx {
+			sl, err := k.SlotsOf(idx)
+			if err != nil {
+				return fmt.Errorf("fem: element %d: %w", i, err)
+			}
+			a.slots[i] = sl
+		}
+		a.slotsOf = k
+	}
+	if err := k.AddSlots(a.slots[e], ke); err != nil {
+		return fmt.Errorf("fem: element %d: %w", e, err)
 	}
 	return nil
 }
@@ -389,8 +413,8 @@ func (a *assembler) addLinearTangent(k *sparse.Matrix) error {
 		if em.t != nil {
 			ke = a.transform(em, ke)
 		}
-		if err := k.AddDense(a.eqIdx[e], ke); err != nil {
-			return fmt.Errorf("fem: element %d: %w", e, err)
+		if err := a.addElement(k, e, ke); err != nil {
+			return err
 		}
 	}
 	return nil

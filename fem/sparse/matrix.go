@@ -159,20 +159,7 @@ func (m *Matrix) AddDense(idx []int, k []float64) error {
 	// Order the block's positions by global index so each column is walked
 	// once, forward, through its sorted rows.
 	var ordArr [sortSmall]int
-	ord := ordArr[:0]
-	for p, g := range idx {
-		if g >= 0 {
-			ord = append(ord, p)
-		}
-	}
-	for a := 1; a < len(ord); a++ {
-		v := ord[a]
-		b := a
-		for ; b > 0 && idx[ord[b-1]] > idx[v]; b-- {
-			ord[b] = ord[b-1]
-		}
-		ord[b] = v
-	}
+	ord := orderBlock(idx, ordArr[:0])
 	start := 0
 	for a, c := range ord {
 		col := idx[c]
@@ -192,6 +179,97 @@ func (m *Matrix) AddDense(idx []int, k []float64) error {
 			}
 			m.val[lo] += k[r*ne+c]
 		}
+	}
+	return nil
+}
+
+// orderBlock appends to ord the positions of idx's non-negative entries,
+// ordered by their index (insertion sort: a block is small).
+func orderBlock(idx []int, ord []int) []int {
+	for p, g := range idx {
+		if g >= 0 {
+			ord = append(ord, p)
+		}
+	}
+	for a := 1; a < len(ord); a++ {
+		v := ord[a]
+		b := a
+		for ; b > 0 && idx[ord[b-1]] > idx[v]; b-- {
+			ord[b] = ord[b-1]
+		}
+		ord[b] = v
+	}
+	return ord
+}
+
+// Slots are where AddDense adds a block's entries in one matrix's values,
+// found once: an element's block goes to the same places at every
+// assembly, and AddSlots adds it there without searching the pattern.
+type Slots struct {
+	ne   int      // the block's order
+	pos  []int32  // positions in the values, in the order AddDense adds
+	from []uint16 // the block's entry (r·ne + c) added there
+}
+
+// SlotsOf returns the slots of a block at rows and columns idx, in the
+// order AddDense adds its entries, so that AddSlots sums exactly as
+// AddDense does. An entry outside the pattern is an error.
+func (m *Matrix) SlotsOf(idx []int) (Slots, error) {
+	ne := len(idx)
+	if ne*ne > 1<<16 {
+		return Slots{}, fmt.Errorf("sparse: SlotsOf: block of order %d: %w", ne, errLength)
+	}
+	for _, g := range idx {
+		if g >= m.n {
+			return Slots{}, fmt.Errorf("sparse: SlotsOf: index %d ≥ n = %d: %w", g, m.n, errIndex)
+		}
+	}
+	sl := Slots{ne: ne}
+	add := func(row, col, from int) error {
+		p := m.find(row, col)
+		if p < 0 {
+			return fmt.Errorf("sparse: SlotsOf: entry (%d, %d): %w", row, col, errPattern)
+		}
+		sl.pos = append(sl.pos, int32(p))
+		sl.from = append(sl.from, uint16(from))
+		return nil
+	}
+	if ne > sortSmall {
+		for c, col := range idx {
+			for r, row := range idx {
+				if col >= 0 && row >= col {
+					if err := add(row, col, r*ne+c); err != nil {
+						return Slots{}, err
+					}
+				}
+			}
+		}
+		return sl, nil
+	}
+	ord := orderBlock(idx, make([]int, 0, ne))
+	start := 0
+	for a, c := range ord {
+		if idx[ord[start]] != idx[c] {
+			start = a
+		}
+		for _, r := range ord[start:] {
+			if err := add(idx[r], idx[c], r*ne+c); err != nil {
+				return Slots{}, err
+			}
+		}
+	}
+	return sl, nil
+}
+
+// AddSlots adds the block k (row-major, of the order the slots were found
+// for) at its slots, as AddDense would.
+func (m *Matrix) AddSlots(sl Slots, k []float64) error {
+	if len(k) != sl.ne*sl.ne {
+		return fmt.Errorf("sparse: AddSlots: len(k) = %d, want %d: %w", len(k), sl.ne*sl.ne, errLength)
+	}
+	val := m.val
+	for i, p := range sl.pos {
+		val[p] += k[sl.from[i]]
 	}
 	return nil
 }

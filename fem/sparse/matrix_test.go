@@ -218,3 +218,50 @@ func TestMulVecSplit(t *testing.T) {
 		}
 	}
 }
+
+// A block added at its slots lands as AddDense adds it, to the last bit:
+// blocks with skipped (negative) and repeated indices, in and out of
+// order, small and larger than AddDense sorts on the stack; an entry
+// outside the pattern is refused.
+func TestAddSlotsIsAddDense(t *testing.T) {
+	rnd := rand.New(rand.NewPCG(9, 10))
+	const n = 120
+	blocks := [][]int{
+		{7, 3, -1, 12, 3},
+		{0, 1, 2, 3},
+		{119, 50, -1, -1, 60},
+	}
+	big := make([]int, sortSmall+6)
+	for i := range big {
+		big[i] = (i * 37) % n
+	}
+	blocks = append(blocks, big)
+	m, err := NewPattern(n, blocks)
+	if err != nil {
+		t.Fatal(err)
+	}
+	viaDense, viaSlots := m.Copy(), m.Copy()
+	for round := 0; round < 2; round++ {
+		for _, idx := range blocks {
+			k := randVec(len(idx)*len(idx), rnd)
+			if err := viaDense.AddDense(idx, k); err != nil {
+				t.Fatal(err)
+			}
+			sl, err := viaSlots.SlotsOf(idx)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if err := viaSlots.AddSlots(sl, k); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	for p := range viaDense.val {
+		if math.Float64bits(viaDense.val[p]) != math.Float64bits(viaSlots.val[p]) {
+			t.Fatalf("value %d: %v by AddDense, %v at the slots", p, viaDense.val[p], viaSlots.val[p])
+		}
+	}
+	if _, err := m.SlotsOf([]int{0, 119}); err == nil {
+		t.Error("a block outside the pattern got slots")
+	}
+}
