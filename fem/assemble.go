@@ -114,10 +114,11 @@ type assembler struct {
 	// expanded); a tangent assembly then also adds K·dup, the linear
 	// change of the internal forces, into kdup (all dofs, node level).
 	dup, kdup []float64
-	// slots: where each element's block goes in the values of slotsOf,
-	// the last matrix assembled into (found once per pattern).
-	slots   []sparse.Slots
-	slotsOf *sparse.Matrix
+	// slots: where each element's block goes in the values of slotsOf
+	// (found once per pattern); searched: the matrix the last whole
+	// assembly searched the pattern of.
+	slots             []sparse.Slots
+	slotsOf, searched *sparse.Matrix
 }
 
 func newAssembler(m *Model) *assembler {
@@ -201,12 +202,23 @@ func (a *assembler) assemble(u, fint []float64, k *sparse.Matrix, pts [][]PointR
 			return err
 		}
 	}
+	if k != nil {
+		a.searched = k
+	}
 	return nil
 }
 
-// addElement adds element e's block ke (in equation space) to k at the
-// element's slots, found at the first assembly into k.
+// addElement adds element e's block ke (in equation space) to k: at the
+// element's slots from the second assembly into k on; the first searches
+// the pattern (an elastic model assembles its tangent once a pattern, and
+// finding the slots costs about what one search of every block does).
 func (a *assembler) addElement(k *sparse.Matrix, e int, ke []float64) error {
+	if a.slotsOf != k && a.searched != k {
+		if err := k.AddDense(a.eqIdx[e], ke); err != nil {
+			return fmt.Errorf("fem: element %d: %w", e, err)
+		}
+		return nil
+	}
 	if a.slotsOf != k {
 		a.slots, a.slotsOf = make([]sparse.Slots, len(a.eqIdx)), nil
 		for i, idx := range a.eqIdx {
@@ -417,5 +429,6 @@ func (a *assembler) addLinearTangent(k *sparse.Matrix) error {
 			return err
 		}
 	}
+	a.searched = k
 	return nil
 }
