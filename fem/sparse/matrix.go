@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"slices"
+	"sync"
 )
 
 // Matrix is a symmetric n×n matrix stored by its lower triangle (diagonal
@@ -15,6 +16,9 @@ type Matrix struct {
 	colPtr []int     // column j holds entries colPtr[j] : colPtr[j+1]
 	rowIdx []int32   // row of each entry, ascending within a column
 	val    []float64 // value of each entry
+	// tails holds the buffers (*[]float64) of the split products
+	// (MulVecTo), so that GMRES's steps do not each allocate one.
+	tails sync.Pool
 }
 
 // maxDim bounds n so that row indices fit the int32 used for storage.
@@ -314,7 +318,14 @@ func (m *Matrix) MulVecTo(dst, x []float64) {
 	// sums do not depend on the cores, so the product is the same on
 	// every machine.
 	mid := m.splitColumn(nnz / 2)
-	tail := make([]float64, m.n-mid)
+	buf, _ := m.tails.Get().(*[]float64)
+	if buf == nil || len(*buf) != m.n-mid {
+		b := make([]float64, m.n-mid)
+		buf = &b
+	}
+	defer m.tails.Put(buf)
+	tail := *buf
+	clear(tail)
 	done := make(chan struct{})
 	go func() {
 		m.mulColumnsFrom(tail, x, mid, m.n, mid)
