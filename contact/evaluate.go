@@ -58,9 +58,8 @@ func (p *Pair) Evaluate(cur []Point, tangent bool, add func(dofs []int, f, k []f
 		e := p.evalPoint(i, cur, st)
 		p.before[i] = p.trial[i].status
 		// A sliding point whose slip turns round changes branch too.
-		turned := e.status == sliding && p.trial[i].status == sliding && e.sign != p.lastSign[i]
-		e.turned = turned
-		p.changed[i] = p.hasEvaluated && (e.status != p.trial[i].status || turned)
+		e.turned = e.status == sliding && p.trial[i].status == sliding && e.sign != p.lastSign[i]
+		p.changed[i] = p.hasEvaluated && (e.status != p.trial[i].status || e.turned)
 		if p.changed[i] {
 			p.noteChange(i, e.status, e.sign)
 		}

@@ -3,6 +3,7 @@ package sparse
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -81,11 +82,12 @@ func q8Mesh(nx, nz int) ([][]int, int) {
 }
 
 // q8Matrix assembles the stiffness of an nx×nz Q8 block (E = 210000 MPa,
-// ν = 0.3, plane strain) through NewPattern and AddDense.
-func q8Matrix(tb testing.TB, nx, nz int) *Matrix {
+// ν = 0.3, plane strain) through NewPattern and AddDense; extra groups
+// widen the pattern only (their entries stay zero).
+func q8Matrix(tb testing.TB, nx, nz int, extra ...[]int) *Matrix {
 	tb.Helper()
 	groups, n := q8Mesh(nx, nz)
-	m, err := NewPattern(n, groups)
+	m, err := NewPattern(n, append(slices.Clone(groups), extra...))
 	if err != nil {
 		tb.Fatal(err)
 	}

@@ -14,24 +14,14 @@ import (
 // numbering) are coupled densely in the pattern, as AnalyzeLast needs.
 func trailingCase(t *testing.T) (*Matrix, []int) {
 	t.Helper()
-	groups, n := q8Mesh(10, 6)
+	_, n := q8Mesh(10, 6)
 	var last []int
 	for i := n - 1; i >= 0; i-- {
 		if i%7 == 0 || i >= n-12 {
 			last = append(last, i)
 		}
 	}
-	m, err := NewPattern(n, append(slices.Clone(groups), last))
-	if err != nil {
-		t.Fatal(err)
-	}
-	ke := q8Stiffness(210000, 0.3)
-	for _, g := range groups {
-		if err := m.AddDense(g, ke); err != nil {
-			t.Fatal(err)
-		}
-	}
-	return m, last
+	return q8Matrix(t, 10, 6, last), last
 }
 
 // TestTrailingFactorIsSchurComplement checks the block-elimination identity
