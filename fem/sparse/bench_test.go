@@ -223,7 +223,7 @@ func BenchmarkMulVec20k(b *testing.B) {
 	b.Run("columns", func(b *testing.B) {
 		for i := 0; i < b.N; i++ {
 			clear(dst)
-			m.mulColumns(dst, x, 0, m.n)
+			m.mulColumns(dst, x, 0, m.n, 0)
 		}
 	})
 }

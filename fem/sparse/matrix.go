@@ -309,7 +309,7 @@ func (m *Matrix) MulVecTo(dst, x []float64) {
 	clear(dst)
 	nnz := m.colPtr[m.n]
 	if nnz < splitProductNNZ {
-		m.mulColumns(dst, x, 0, m.n)
+		m.mulColumns(dst, x, 0, m.n, 0)
 		return
 	}
 	// Two halves of the columns by entries, on two goroutines. The second
@@ -328,10 +328,10 @@ func (m *Matrix) MulVecTo(dst, x []float64) {
 	clear(tail)
 	done := make(chan struct{})
 	go func() {
-		m.mulColumnsFrom(tail, x, mid, m.n, mid)
+		m.mulColumns(tail, x, mid, m.n, mid)
 		close(done)
 	}()
-	m.mulColumns(dst, x, 0, mid)
+	m.mulColumns(dst, x, 0, mid, 0)
 	<-done
 	for i, v := range tail {
 		dst[mid+i] += v
@@ -359,14 +359,9 @@ func (m *Matrix) splitColumn(half int) int {
 }
 
 // mulColumns adds the products of columns [from, to) of the symmetric
-// matrix with x to dst.
-func (m *Matrix) mulColumns(dst, x []float64, from, to int) {
-	m.mulColumnsFrom(dst, x, from, to, 0)
-}
-
-// mulColumnsFrom is mulColumns into dst indexed from row base on (every
-// row the columns reach is at least base).
-func (m *Matrix) mulColumnsFrom(dst, x []float64, from, to, base int) {
+// matrix with x to dst, which holds the rows from base on (every row the
+// columns reach is at least base).
+func (m *Matrix) mulColumns(dst, x []float64, from, to, base int) {
 	for j := from; j < to; j++ {
 		xj := x[j]
 		var s float64

@@ -211,7 +211,7 @@ func TestMulVecSplit(t *testing.T) {
 	x := randVec(m.n, rnd)
 	got, want := make([]float64, m.n), make([]float64, m.n)
 	m.MulVecTo(got, x)
-	m.mulColumns(want, x, 0, m.n)
+	m.mulColumns(want, x, 0, m.n, 0)
 	for i := range want {
 		if math.Abs(got[i]-want[i]) > 1e-13*(math.Abs(want[i])+1) {
 			t.Fatalf("row %d: %g split, %g on one goroutine", i, got[i], want[i])
